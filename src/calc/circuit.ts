@@ -1,0 +1,146 @@
+// The four checks of one circuit for one cable choice (used for the chosen cable, its alternatives and the
+// length searches): thermal withstand, breaking capacity, disconnection, voltage drop.
+
+import type { Cable, Load, Settings } from '../model/types.js';
+import { insulationTemperatures } from '../data/insulation.js';
+import type { CheckName, Status } from './types.js';
+import { type KDerivation, conductorK, withstandEnergy } from './adiabatic.js';
+import { type DeviceInCircuit, type OperatingPoint, operatingPoint } from './device.js';
+import { type FaultPoint, type SourceAtBoard, areaMm2, faultAt } from './fault-point.js';
+import { resistanceAt } from './impedance.js';
+import { type EnergyCheck, energyOverRange, kappaAnchors } from './withstand-check.js';
+
+export interface CircuitCase {
+  settings: Settings;
+  device: DeviceInCircuit;
+  source: SourceAtBoard;
+  upstreamDrop: number; // percent at the origin board
+  cable: Cable;
+  load?: Load;
+  disconnectionTime: number; // s
+  voltageDropLimit: number; // percent
+}
+
+export interface DisconnectionOutcome {
+  status: Status;
+  current: number; // I''k1min at the far end
+  point: OperatingPoint | null; // null where the earthing system's loop is not modelled
+  limit: number;
+}
+
+export interface VoltageDropOutcome {
+  status: Status;
+  own: number; // percent, this cable
+  total: number; // percent, upstream + this cable
+  limit: number;
+  resistanceTemperature: number; // degC
+}
+
+export interface CircuitEvaluation {
+  origin: FaultPoint;
+  end: FaultPoint;
+  k: KDerivation;
+  totalAreaMm2: number;
+  withstand: number;
+  energy: EnergyCheck;
+  breaking: { status: Status; value: number; limit: number | null };
+  disconnection: DisconnectionOutcome;
+  voltageDrop: VoltageDropOutcome | null;
+  verdict: Status;
+  failing: CheckName[];
+  undetermined: CheckName[];
+}
+
+export function cableK(cable: Cable): KDerivation {
+  return conductorK(cable.conductor, cable.insulation, areaMm2(cable));
+}
+
+export function cableWithstand(cable: Cable, k: number): number {
+  return withstandEnergy(k, areaMm2(cable) * cable.parallel);
+}
+
+/** True where earth-fault disconnection can be judged from the line-PE loop (TN systems). */
+export function earthFaultLoopModelled(settings: Settings): boolean {
+  return settings.earthing === 'TN-S' || settings.earthing === 'TN-C-S' || settings.earthing === 'TN-C';
+}
+
+/** Energy check on faults at one point only (the far end of a cable of `length`). */
+export function farEndEnergy(c: CircuitCase, length: number, withstand: number): EnergyCheck {
+  const end = faultAt(c.settings, c.source, c.cable, length);
+  const lo = Math.min(end.ik1min, end.ik3max);
+  const hi = Math.max(end.ik1min, end.ik3max);
+  return energyOverRange(c.device, lo, hi, kappaAnchors([end]), withstand);
+}
+
+/** Device response to the smallest fault (line-PE) at the far end of a cable of `length`. */
+export function farEndDisconnection(c: CircuitCase, length: number): DisconnectionOutcome {
+  const end = faultAt(c.settings, c.source, c.cable, length);
+  return disconnectionFor(c, end);
+}
+
+function disconnectionFor(c: CircuitCase, end: FaultPoint): DisconnectionOutcome {
+  const limit = c.disconnectionTime;
+  if (!earthFaultLoopModelled(c.settings)) return { status: 'undetermined', current: end.ik1min, point: null, limit };
+  const point = operatingPoint(c.device, end.ik1min, end.kappa1);
+  const status: Status = point.time === null ? 'undetermined' : point.time <= limit ? 'pass' : 'fail';
+  return { status, current: end.ik1min, point, limit };
+}
+
+/** 3-phase voltage drop sqrt(3) I_b L (R cos phi + X sin phi) / U_n in percent, R at max operating temperature. */
+export function cableVoltageDrop(settings: Settings, cable: Cable, load: Load, length = cable.length) {
+  const temperature = insulationTemperatures(cable.insulation, areaMm2(cable)).initialC;
+  const r = (resistanceAt(cable.resistance20, temperature) * length) / cable.parallel;
+  const x = (cable.reactance * length) / cable.parallel;
+  const cos = load.powerFactor;
+  const sin = Math.sqrt(Math.max(0, 1 - cos * cos));
+  const percent = ((Math.sqrt(3) * load.current * (r * cos + x * sin)) / settings.systemVoltage) * 100;
+  return { percent, r, x, temperature };
+}
+
+export function evaluateCircuit(c: CircuitCase): CircuitEvaluation {
+  const { settings, cable } = c;
+  const origin = faultAt(settings, c.source, cable, 0);
+  const end = faultAt(settings, c.source, cable, cable.length);
+  const k = cableK(cable);
+  const totalAreaMm2 = areaMm2(cable) * cable.parallel;
+  const withstand = withstandEnergy(k.k, totalAreaMm2);
+
+  const anyPoint = settings.withstandCriterion === 'any-point';
+  const bounds = anyPoint ? [origin, end] : [end];
+  const lo = Math.min(end.ik1min, end.ik3max);
+  const hi = anyPoint ? origin.ik3max : Math.max(end.ik1min, end.ik3max);
+  const energy = energyOverRange(c.device, lo, hi, kappaAnchors(bounds), withstand);
+
+  const capacity = c.device.device.breakingCapacity;
+  const breaking = {
+    status: (capacity === undefined ? 'undetermined' : origin.ik3max <= capacity ? 'pass' : 'fail') as Status,
+    value: origin.ik3max,
+    limit: capacity ?? null,
+  };
+
+  const disconnection = disconnectionFor(c, end);
+
+  let voltageDrop: VoltageDropOutcome | null = null;
+  if (c.load) {
+    const vd = cableVoltageDrop(settings, cable, c.load);
+    const total = c.upstreamDrop + vd.percent;
+    voltageDrop = {
+      status: total <= c.voltageDropLimit ? 'pass' : 'fail',
+      own: vd.percent,
+      total,
+      limit: c.voltageDropLimit,
+      resistanceTemperature: vd.temperature,
+    };
+  }
+
+  const statuses: Array<[CheckName, Status]> = [
+    ['thermal_withstand', energy.status],
+    ['breaking_capacity', breaking.status],
+    ['disconnection', disconnection.status],
+  ];
+  if (voltageDrop) statuses.push(['voltage_drop', voltageDrop.status]);
+  const failing = statuses.filter(([, s]) => s === 'fail').map(([n]) => n);
+  const undetermined = statuses.filter(([, s]) => s === 'undetermined').map(([n]) => n);
+  const verdict: Status = failing.length > 0 ? 'fail' : undetermined.length > 0 ? 'undetermined' : 'pass';
+  return { origin, end, k, totalAreaMm2, withstand, energy, breaking, disconnection, voltageDrop, verdict, failing, undetermined };
+}
