@@ -18,7 +18,19 @@ const IEC60228_SOURCE = 'IEC 60228:2004 Table 2 (class 2)';
 const NFPA_SOURCE = 'NFPA 70 Ch. 9 Table 8, referred to 20 °C';
 
 /** The standard sizes of the chosen cable's size system that have a tabulated resistance, ascending. */
-export function sizeLadder(cable: Cable): SizeStep[] {
+export function sizeLadder(cable: Cable): readonly SizeStep[] {
+  const key = `${cable.conductor}/${cable.size.system === 'metric' ? 'metric' : 'awg'}`;
+  let ladder = ladders.get(key);
+  if (!ladder) {
+    ladder = buildLadder(cable);
+    ladders.set(key, ladder);
+  }
+  return ladder;
+}
+
+const ladders = new Map<string, SizeStep[]>();
+
+function buildLadder(cable: Cable): SizeStep[] {
   if (cable.size.system === 'metric') {
     const steps: SizeStep[] = [];
     for (const mm2 of METRIC_SIZES_MM2) {
@@ -70,7 +82,7 @@ export interface ChosenOutcome {
 
 function describe(c: CircuitCase, chosen: ChosenOutcome | null): Alternative {
   const ev = chosen?.evaluation ?? evaluateCircuit(c);
-  return {
+  const row: Omit<Alternative, 'thresholdLength' | 'maxLength'> = {
     size: c.cable.size.label,
     area: c.cable.size.area,
     k: ev.k.k,
@@ -78,12 +90,18 @@ function describe(c: CircuitCase, chosen: ChosenOutcome | null): Alternative {
     endIk3max: ev.end.ik3max,
     endIk1min: ev.end.ik1min,
     letThrough: ev.energy.letThrough,
-    thresholdLength: chosen ? chosen.thresholdLength : thresholdLength(c, ev.withstand),
-    maxLength: chosen ? chosen.maxLength : maxProtectedLength(c),
     verdict: ev.verdict,
     failing: ev.failing,
     chosen: chosen !== null,
   };
+  if (chosen) return { ...row, thresholdLength: chosen.thresholdLength, maxLength: chosen.maxLength };
+  // The length searches of the other sizes are for the sheet only: run them when first read.
+  let threshold: number | null | undefined;
+  let max: number | null | undefined;
+  return Object.defineProperties(row, {
+    thresholdLength: { enumerable: true, get: () => (threshold === undefined ? (threshold = thresholdLength(c, ev.withstand)) : threshold) },
+    maxLength: { enumerable: true, get: () => (max === undefined ? (max = maxProtectedLength(c)) : max) },
+  }) as Alternative;
 }
 
 /** Two sizes below and two above the chosen one (five in all where the ladder allows). */

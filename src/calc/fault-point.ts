@@ -3,7 +3,7 @@
 import type { Cable, Settings } from '../model/types.js';
 import { insulationTemperatures } from '../data/insulation.js';
 import type { Impedance } from './types.js';
-import { add, cableLoopImpedance, cablePhaseImpedance } from './impedance.js';
+import { resistanceAt } from './impedance.js';
 import { lineToEarthCurrent, peakFactor, threePhaseCurrent } from './fault-current.js';
 
 /** Source impedances seen at a board. */
@@ -46,8 +46,15 @@ export function minFaultTemperature(settings: Settings, cable: Cable): number {
 const temperatureCache = new WeakMap<Cable, { initialC: number; finalC: number }>();
 
 export function faultAt(settings: Settings, source: SourceAtBoard, cable: Cable, length: number): FaultPoint {
-  const zMax = add(source.zMax, cablePhaseImpedance(cable, length, 20));
-  const zLoop = add(source.zLoopMin, cableLoopImpedance(cable, length, minFaultTemperature(settings, cable)));
+  // Inlined phase and loop impedances: this runs thousands of times per circuit in the length searches.
+  const hot = resistanceAt(1, minFaultTemperature(settings, cable));
+  const pe = cable.protectiveConductor;
+  const xPhase = (cable.reactance * length) / cable.parallel;
+  const zMax = { r: source.zMax.r + (cable.resistance20 * length) / cable.parallel, x: source.zMax.x + xPhase };
+  const zLoop = {
+    r: source.zLoopMin.r + hot * length * (cable.resistance20 / cable.parallel + pe.resistance20 / pe.parallel),
+    x: source.zLoopMin.x + xPhase + (cable.reactance * length) / pe.parallel,
+  };
   const ik3max = threePhaseCurrent(settings.voltageFactorMax, settings.systemVoltage, zMax);
   const kappa3 = peakFactor(zMax);
   return {

@@ -6,14 +6,8 @@ import { fmt, sig } from './quantity-text.js';
 
 export const ZERO: Impedance = { r: 0, x: 0 };
 
-export function add(...parts: Impedance[]): Impedance {
-  let r = 0;
-  let x = 0;
-  for (const p of parts) {
-    r += p.r;
-    x += p.x;
-  }
-  return { r, x };
+export function add(a: Impedance, b: Impedance): Impedance {
+  return { r: a.r + b.r, x: a.x + b.x };
 }
 
 export function scale(z: Impedance, factor: number): Impedance {

@@ -55,8 +55,6 @@ export function resultsDocument(project: Project, result: ProjectResult) {
         let_through_a2s: a.letThrough,
         end_ik3max_a: a.endIk3max,
         end_ik1min_a: a.endIk1min,
-        threshold_length_m: a.thresholdLength,
-        max_length_m: a.maxLength,
         verdict: a.verdict,
         chosen: a.chosen,
       })),

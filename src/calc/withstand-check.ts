@@ -34,6 +34,10 @@ export function kappaAnchors(points: readonly FaultPoint[]): KappaAnchor[] {
   for (const p of points) {
     anchors.push({ current: p.ik3max, kappa: p.kappa3 }, { current: p.ik1min, kappa: p.kappa1 });
   }
+  if (anchors.length === 2) {
+    const [a, b] = anchors as [KappaAnchor, KappaAnchor];
+    return a.current < b.current || (a.current === b.current && a.kappa <= b.kappa) ? anchors : [b, a];
+  }
   return anchors.sort((a, b) => a.current - b.current || a.kappa - b.kappa);
 }
 

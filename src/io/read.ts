@@ -2,7 +2,9 @@
 // (nothing else), and notes whether a templates/ folder is present. The only module of loading
 // that touches the file system; everything after it works on the bytes it returns.
 
-import { readdir, readFile, realpath, stat } from 'node:fs/promises';
+// Synchronous calls: a project folder is read once at start-up, and one round trip per file through
+// the thread pool costs more than the reads themselves on a project of a thousand files.
+import { readdirSync as readdir, readFileSync as readFile, realpathSync as realpath, statSync as stat } from 'node:fs';
 import path from 'node:path';
 
 export interface InputFile {
@@ -37,9 +39,9 @@ function errorText(error: unknown): string {
   return error instanceof Error ? error.message : String(error);
 }
 
-async function isDirectory(target: string): Promise<boolean> {
+function isDirectory(target: string): boolean {
   try {
-    return (await stat(target)).isDirectory();
+    return (stat(target)).isDirectory();
   } catch {
     return false;
   }
@@ -52,11 +54,11 @@ const compare = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 0);
  * the same real folder twice. Names starting with "." (editor lock and backup files) are skipped;
  * *.yml files are reported so that a misnamed file is not silently left out.
  */
-async function listYaml(root: string, folder: string, problems: ReadProblem[], seen: Set<string>): Promise<string[]> {
+function listYaml(root: string, folder: string, problems: ReadProblem[], seen: Set<string>): string[] {
   const absolute = path.join(root, folder);
   let real: string;
   try {
-    real = await realpath(absolute);
+    real = realpath(absolute);
   } catch (error) {
     problems.push({ kind: 'read-error', file: folder, detail: errorText(error) });
     return [];
@@ -65,7 +67,7 @@ async function listYaml(root: string, folder: string, problems: ReadProblem[], s
   seen.add(real);
   let names: string[];
   try {
-    names = (await readdir(absolute)).sort(compare);
+    names = (readdir(absolute)).sort(compare);
   } catch (error) {
     problems.push({ kind: 'read-error', file: folder, detail: errorText(error) });
     return [];
@@ -76,12 +78,12 @@ async function listYaml(root: string, folder: string, problems: ReadProblem[], s
     const relative = `${folder}/${name}`;
     let info;
     try {
-      info = await stat(path.join(root, relative));
+      info = stat(path.join(root, relative));
     } catch (error) {
       problems.push({ kind: 'read-error', file: relative, detail: errorText(error) });
       continue;
     }
-    if (info.isDirectory()) found.push(...(await listYaml(root, relative, problems, seen)));
+    if (info.isDirectory()) found.push(...(listYaml(root, relative, problems, seen)));
     else if (info.isFile() && name.endsWith('.yaml')) found.push(relative);
     else if (info.isFile() && name.endsWith('.yml')) {
       problems.push({ kind: 'ignored-file', file: relative, detail: 'rename it to .yaml to have it read' });
@@ -93,17 +95,17 @@ async function listYaml(root: string, folder: string, problems: ReadProblem[], s
 export async function readProjectFolder(dir: string): Promise<ProjectFolder> {
   const absolute = path.resolve(dir);
   const problems: ReadProblem[] = [];
-  if (!(await isDirectory(absolute))) {
+  if (!(isDirectory(absolute))) {
     problems.push({ kind: 'missing-folder', file: '.', detail: `${absolute} is not a folder` });
     return { dir: absolute, files: [], problems };
   }
   const relativePaths: string[] = [];
   try {
-    const info = await stat(path.join(absolute, PROJECT_FILE));
+    const info = stat(path.join(absolute, PROJECT_FILE));
     if (info.isFile()) relativePaths.push(PROJECT_FILE);
     else problems.push({ kind: 'read-error', file: PROJECT_FILE, detail: 'is not a file' });
   } catch {
-    const alternative = (await stat(path.join(absolute, 'project.yml')).catch(() => undefined))?.isFile();
+    const alternative = (() => { try { return stat(path.join(absolute, 'project.yml')).isFile(); } catch { return false; } })();
     problems.push({
       kind: 'missing-project-file',
       file: PROJECT_FILE,
@@ -112,21 +114,21 @@ export async function readProjectFolder(dir: string): Promise<ProjectFolder> {
   }
   const seen = new Set<string>();
   for (const folder of INPUT_FOLDERS) {
-    if (await isDirectory(path.join(absolute, folder))) {
-      relativePaths.push(...(await listYaml(absolute, folder, problems, seen)));
+    if (isDirectory(path.join(absolute, folder))) {
+      relativePaths.push(...(listYaml(absolute, folder, problems, seen)));
     }
   }
   relativePaths.sort(compare);
   const files: InputFile[] = [];
   for (const relative of relativePaths) {
     try {
-      files.push({ path: relative, bytes: await readFile(path.join(absolute, relative)) });
+      files.push({ path: relative, bytes: readFile(path.join(absolute, relative)) });
     } catch (error) {
       problems.push({ kind: 'read-error', file: relative, detail: errorText(error) });
     }
   }
   const templates = path.join(absolute, 'templates');
   const folder: ProjectFolder = { dir: absolute, files, problems };
-  if (await isDirectory(templates)) folder.templatesDir = templates;
+  if (isDirectory(templates)) folder.templatesDir = templates;
   return folder;
 }

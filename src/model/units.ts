@@ -1,7 +1,19 @@
 // Dimensional values written as text with a unit ("45 m", "95 mm2", "1.5e5 A^2 s"), parsed with
 // mathjs and converted once, here, to SI numbers (FORMAT.md: units are resolved at the edge).
 
-import { unit as mathUnit, type Unit } from 'mathjs';
+import { createRequire } from 'node:module';
+import path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import type { MathJsInstance, Unit } from 'mathjs';
+
+// Only mathjs's unit machinery is built: the package's entry point creates every function it has at
+// import, which costs most of a second at start-up. Its files are imported by path, since the
+// package's export map offers no partial entry.
+const mathjsRoot = path.dirname(createRequire(import.meta.url).resolve('mathjs/package.json'));
+const fromMathjs = async (file: string) => import(pathToFileURL(path.join(mathjsRoot, 'lib', 'esm', file)).href);
+const { create } = (await fromMathjs('core/create.js')) as { create: (factories: object) => MathJsInstance };
+const { unitDependencies } = (await fromMathjs('entry/dependenciesAny/dependenciesUnitFunction.generated.js')) as { unitDependencies: object };
+const mathUnit = create({ unitDependencies }).unit;
 
 export type Dimension =
   | 'length'
