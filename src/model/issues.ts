@@ -33,9 +33,10 @@ export function formatIssues(issues: readonly Issue[]): string {
 }
 
 export function formatIssue(issue: Issue): string {
-  const location = issue.line > 0 ? `${issue.file}:${issue.line}:${issue.col}` : issue.file;
+  const located = issue.line > 0;
+  const location = located ? `${issue.file}:${issue.line}:${issue.col}` : issue.file;
   const severity = issue.severity === 'warning' ? ' warning:' : '';
-  const field = issue.path === '' ? '' : ` ${issue.path}:`;
+  const field = issue.path === '' ? (located || severity ? '' : ':') : ` ${issue.path}:`;
   const expected = issue.expected === undefined ? '' : `, expected ${issue.expected}`;
   return `${location}${severity}${field} ${issue.message}${expected}`;
 }

@@ -22,7 +22,7 @@ describe('formatIssue', () => {
   });
   it('leaves out the field for a whole-file problem, and the position where there is none', () => {
     expect(formatIssue(issue({ path: '', message: 'the file is empty' }))).toBe('circuits/a.yaml:1:1 the file is empty');
-    expect(formatIssue(issue({ file: 'project.yaml', line: 0, col: 0, path: '', message: 'file not found' }))).toBe('project.yaml file not found');
+    expect(formatIssue(issue({ file: 'project.yaml', line: 0, col: 0, path: '', message: 'file not found' }))).toBe('project.yaml: file not found');
   });
   it('marks warnings', () => {
     expect(formatIssue(issue({ severity: 'warning', path: '', message: 'is not read' }))).toBe('circuits/a.yaml:1:1 warning: is not read');
