@@ -2,7 +2,7 @@
 // filesystem), then the folder is swapped into place with renames. Until the swap OUT is not
 // touched; if the swap fails the old OUT is put back. A failed build leaves OUT as it was.
 
-import { mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { chmod, mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 
 /** OUT cannot be used (not a folder, or holding files a build did not write). */
@@ -53,6 +53,7 @@ export async function openStaging(outDir: string): Promise<Staging> {
   }
   await mkdir(parent, { recursive: true });
   const dir = await mkdtemp(path.join(parent, `.tmp-${base}-`));
+  await chmod(dir, 0o755); // mkdtemp makes it private; OUT is an ordinary folder
   let done = false;
   return {
     dir,

@@ -1,0 +1,374 @@
+// The command line: parses arguments, calls the engine, prints to the streams it is given.
+// It never exits the process itself; `main` returns the exit code (bin/faultsheet.js sets it).
+
+import path from 'node:path';
+import { Command, CommanderError } from 'commander';
+import cliProgress from 'cli-progress';
+import { loadProject } from './model/load.js';
+import { formatIssues, type Issue } from './model/issues.js';
+import { solveProject } from './calc/solve.js';
+import { resultsDocument } from './calc/results-json.js';
+import type { Project } from './model/types.js';
+import type { CheckResult, CircuitResult, ProjectResult, Status } from './calc/types.js';
+import { initProject, InitError } from './init.js';
+import { demoProjectDirs, packageVersion } from './demo.js';
+
+export interface CliIo {
+  argv: string[]; // arguments after the program name
+  cwd: string;
+  stdout: NodeJS.WritableStream & { isTTY?: boolean };
+  stderr: NodeJS.WritableStream;
+}
+
+/** Exit codes, documented in `--help` and the README. */
+export const EXIT = {
+  ok: 0, // success; checks may fail unless --strict
+  input: 1, // input or usage error (and internal errors, which say so)
+  checks: 2, // with --strict: some check fails or is undetermined
+} as const;
+
+/** A problem the user can fix: printed as one line, no stack. */
+class UserError extends Error {}
+
+/** A project that did not load: its issues are already formatted. */
+class ProjectIssues extends Error {}
+
+const EXIT_CODES_HELP = `
+Exit codes:
+  0  success (checks may fail; use --strict to make that an error)
+  1  input or usage error (the problems are listed on stderr), or an internal error
+  2  with --strict: at least one check fails or is undetermined`;
+
+const EXIT_CODES_HELP_PLAIN = `
+Exit codes:
+  0  success
+  1  input or usage error (the problems are listed on stderr), or an internal error`;
+
+export async function main(io: CliIo): Promise<number> {
+  const out = (text: string) => void io.stdout.write(text);
+  const err = (text: string) => void io.stderr.write(text);
+  let code: number = EXIT.ok;
+
+  const program = new Command('faultsheet')
+    .description(
+      'Short-circuit withstand, breaking capacity, disconnection and voltage-drop checks for LV ' +
+        'installations, from a project folder of YAML files to PDF calculation sheets.',
+    )
+    .version(await packageVersion(), '-V, --version', 'print the version')
+    .helpOption('-h, --help', 'show help')
+    .addHelpCommand(false)
+    .exitOverride()
+    .showSuggestionAfterError(true)
+    .configureOutput({ writeOut: out, writeErr: err, outputError: (text, write) => write(text) })
+    .addHelpText(
+      'after',
+      `
+Examples:
+  $ faultsheet init my-project          start a new project folder
+  $ faultsheet check my-project         validate the YAML files
+  $ faultsheet solve my-project         fault levels and verdicts in the terminal
+  $ faultsheet build my-project         write the PDF dossier to my-project/out/
+  $ faultsheet demo                     build the demo projects
+${EXIT_CODES_HELP}
+
+Run 'faultsheet <command> --help' for a command's options.`,
+    );
+
+  const command = (name: string, summary: string, example: string, exitCodes = EXIT_CODES_HELP_PLAIN) =>
+    program
+      .command(name)
+      .description(summary)
+      .showHelpAfterError(`(run 'faultsheet ${name.split(' ')[0]} --help' for usage)`)
+      .addHelpText('after', `\nExample:\n  $ ${example}\n${exitCodes}\n`);
+
+  command('check <dir>', 'validate a project folder without solving it', 'faultsheet check projects-demo/iec-400v').action(
+    async (dir: string) => {
+      const project = await load(io, dir);
+      const files = new Set<string>(['project.yaml']);
+      for (const d of project.devices) files.add(d.pos.file);
+      for (const c of project.circuits) files.add(c.pos.file);
+      out(`${plural(files.size, 'file')}, ${plural(project.circuits.length, 'circuit')}: no problems\n`);
+    },
+  );
+
+  command(
+    'solve <dir>',
+    'solve fault levels and check every circuit; print a table (or the JSON results)',
+    'faultsheet solve projects-demo/iec-400v --json > results.json',
+    EXIT_CODES_HELP,
+  )
+    .option('--json', 'print only the results JSON document on stdout (the same as results.json)')
+    .option('--strict', 'exit 2 if any check fails or is undetermined')
+    .action(async (dir: string, opts: { json?: boolean; strict?: boolean }) => {
+      const project = await load(io, dir);
+      const result = solveProject(project);
+      if (opts.json) out(`${JSON.stringify(resultsDocument(project, result), null, 2)}\n`);
+      else out(solveTable(project, result));
+      if (opts.strict && !allPass(result)) code = EXIT.checks;
+    });
+
+  command(
+    'build <dir>',
+    'solve and write the PDF sheets, summary, dossier and results.json',
+    'faultsheet build projects-demo/iec-400v --out /tmp/iec-dossier',
+    EXIT_CODES_HELP,
+  )
+    .option('-o, --out <out>', 'output folder (default: <dir>/out)')
+    .option('-q, --quiet', 'no progress bar and no closing line (errors are still printed)')
+    .option('--strict', 'exit 2 if any check fails or is undetermined')
+    .action(async (dir: string, opts: { out?: string; quiet?: boolean; strict?: boolean }) => {
+      const projectDir = path.resolve(io.cwd, dir);
+      const outDir = opts.out ? path.resolve(io.cwd, opts.out) : path.join(projectDir, 'out');
+      const built = await buildOne(io, projectDir, outDir, { quiet: Boolean(opts.quiet) });
+      if (!opts.quiet) out(`${built.line}\n`);
+      if (opts.strict && !allPass(built.result)) code = EXIT.checks;
+    });
+
+  command('init <dir>', 'create a new project folder that builds as it is', 'faultsheet init substation-b').action(
+    async (dir: string) => {
+      const target = path.resolve(io.cwd, dir);
+      const written = await initProject(target);
+      out(`created ${display(io, target)}: ${written.join(', ')}\n`);
+      out(`next: faultsheet check ${display(io, target)}\n`);
+    },
+  );
+
+  command('demo', 'build every demo project in projects-demo/ into its out/ folder', 'npm run demo')
+    .option('-q, --quiet', 'no progress bar')
+    .action(async (opts: { quiet?: boolean }) => {
+      const dirs = await demoProjectDirs();
+      if (dirs.length === 0) throw new Error('no demo projects found next to the program (projects-demo/)');
+      out('Demo dossiers:\n');
+      for (const dir of dirs) {
+        const built = await buildOne(io, dir, path.join(dir, 'out'), { quiet: Boolean(opts.quiet) });
+        out(`  ${built.line}\n`);
+      }
+      out('Open dossier.pdf in each folder; the per-circuit sheets sit beside it.\n');
+    });
+
+  try {
+    await program.parseAsync(io.argv, { from: 'user' });
+    return code;
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      // help and version are requested output; everything else is a usage error commander already printed
+      if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version') return EXIT.ok;
+      return EXIT.input;
+    }
+    if (e instanceof ProjectIssues) {
+      err(e.message.endsWith('\n') ? e.message : `${e.message}\n`);
+      return EXIT.input;
+    }
+    if (e instanceof UserError || e instanceof InitError) {
+      err(e.message.split('\n').map((line) => `error: ${line}\n`).join(''));
+      return EXIT.input;
+    }
+    const stack = e instanceof Error ? (e.stack ?? e.message) : String(e as unknown);
+    err(`internal error: ${stack}\n(this is a bug in faultsheet, not in your project; please report it with the input)\n`);
+    return EXIT.input;
+  }
+}
+
+async function load(io: CliIo, dir: string): Promise<Project> {
+  const projectDir = path.resolve(io.cwd, dir);
+  const loaded = await loadProject(projectDir);
+  // locations as the user can open them from where they are: the project folder, then the file
+  const located = (issues: readonly Issue[]) =>
+    formatIssues(issues.map((i) => ({ ...i, file: path.join(display(io, projectDir), i.file).split(path.sep).join('/') })));
+  if (!loaded.ok) throw new ProjectIssues(located(loaded.issues));
+  if (loaded.warnings.length > 0) io.stderr.write(`${located(loaded.warnings)}\n`);
+  return loaded.project;
+}
+
+interface Built {
+  result: ProjectResult;
+  line: string; // the closing line: sheets written, checks failed, time taken, where
+}
+
+/** Load, solve and write one project's dossier, with a progress bar on a terminal. */
+async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { quiet: boolean }): Promise<Built> {
+  const started = performance.now();
+  const project = await load(io, projectDir);
+  const result = solveProject(project);
+  const doc = resultsDocument(project, result);
+  const showBar = Boolean(io.stdout.isTTY) && !opts.quiet;
+  const bar = showBar
+    ? new cliProgress.SingleBar(
+        {
+          stream: io.stdout,
+          format: `${project.meta.number || project.meta.name} |{bar}| {value}/{total} circuits`,
+          hideCursor: true,
+          clearOnComplete: true,
+        },
+        cliProgress.Presets.shades_classic,
+      )
+    : undefined;
+  // the report (pdfmake, canvas, fonts) is loaded only when a dossier is written
+  const { buildDossier, OutputDirError, OutputPlanError, TemplateError } = await import('./report/build.js');
+  bar?.start(project.circuits.length, 0);
+  try {
+    await buildDossier(project, result, doc, outDir, {
+      onProgress: (done: number) => bar?.update(done),
+    });
+  } catch (e) {
+    // two sheets on one file name, an output folder that cannot be used, a project template that does not compile
+    if (e instanceof OutputPlanError || e instanceof OutputDirError || e instanceof TemplateError) throw new UserError(e.message);
+    throw e;
+  } finally {
+    bar?.stop();
+  }
+  const seconds = (performance.now() - started) / 1000;
+  const failed = countChecks(result, 'fail');
+  const undetermined = countChecks(result, 'undetermined');
+  const parts = [
+    `${plural(result.circuits.length, 'sheet')} written`,
+    `${plural(failed, 'check')} failed`,
+    ...(undetermined > 0 ? [`${undetermined} undetermined`] : []),
+  ];
+  const line = `${parts.join(', ')} in ${seconds.toFixed(1)} s: ${display(io, path.join(outDir, 'dossier.pdf'))}`;
+  return { result, line };
+}
+
+function allPass(result: ProjectResult): boolean {
+  return result.circuits.every((c) => c.verdict === 'pass');
+}
+
+function countChecks(result: ProjectResult, status: Status): number {
+  return result.circuits.reduce((n, c) => n + c.checks.filter((k) => k.status === status).length, 0);
+}
+
+function plural(n: number, word: string): string {
+  return `${n} ${word}${n === 1 ? '' : 's'}`;
+}
+
+/** A path as the user would type it from where they are. */
+function display(io: CliIo, p: string): string {
+  const rel = path.relative(io.cwd, p);
+  if (rel === '') return '.';
+  const outside = rel === '..' || rel.startsWith(`..${path.sep}`) || path.isAbsolute(rel);
+  return outside ? p : rel;
+}
+
+// ---- the terminal table of `solve` (pure: text from the result) ----
+
+const STATUS_ORDER: Record<Status, number> = { fail: 0, undetermined: 1, pass: 2 };
+const STATUS_WORD: Record<Status, string> = { fail: 'FAIL', undetermined: 'UNDET', pass: 'pass' };
+const CHECK_WORD: Record<CheckResult['name'], string> = {
+  thermal_withstand: 'withstand',
+  breaking_capacity: 'breaking',
+  disconnection: 'disconnection',
+  voltage_drop: 'voltage drop',
+};
+
+/** The readable summary of a solved project: board fault levels, problems first, then every circuit. */
+export function solveTable(project: Project, result: ProjectResult): string {
+  const lines: string[] = [];
+  const m = project.meta;
+  lines.push(`${m.name}  ${m.number} rev ${m.revision}  ${m.date}`);
+  lines.push('');
+  lines.push('Boards (fault levels)');
+  lines.push(
+    table(
+      ['board', "I''k3max", 'i_p', "I''k1min", 'volt drop', 'fed by'],
+      result.boards.map((b) => [
+        `${'  '.repeat(b.depth)}${b.id}`,
+        kA(b.ik3max),
+        kA(b.ip),
+        kA(b.ik1min),
+        `${b.voltageDrop.toFixed(2)} %`,
+        b.fedBy,
+      ]),
+      [false, true, true, true, true, false],
+    ),
+  );
+
+  const problems = result.circuits
+    .flatMap((c) => c.checks.filter((k) => k.status !== 'pass').map((k) => ({ c, k })))
+    .sort((a, b) => STATUS_ORDER[a.k.status] - STATUS_ORDER[b.k.status] || byText(a.c.id, b.c.id));
+  lines.push('');
+  if (problems.length === 0) lines.push('Every check passes.');
+  else {
+    lines.push(`Checks that fail or are undetermined (${problems.length})`);
+    for (const { c, k } of problems) {
+      const vs = k.value !== null && k.limit !== null ? ` ${checkValue(k.name, k.value)} vs limit ${checkValue(k.name, k.limit)}` : '';
+      lines.push(`  ${STATUS_WORD[k.status].padEnd(5)} ${c.id}  ${CHECK_WORD[k.name]}:${vs}`);
+      if (k.explanation) lines.push(`        ${k.explanation}`);
+    }
+  }
+
+  const circuits = [...result.circuits].sort(
+    (a, b) => STATUS_ORDER[a.verdict] - STATUS_ORDER[b.verdict] || byText(a.id, b.id),
+  );
+  lines.push('');
+  lines.push('Circuits');
+  lines.push(
+    table(
+      ['verdict', 'circuit', 'from', 'device', "I''k3 origin", "I''k1min end", 'k2S2', 'let-through', 'thresh. L', 'max L', 'failing'],
+      circuits.map((c) => circuitRow(c)),
+      [false, false, false, false, true, true, true, true, true, true, false],
+    ),
+  );
+  lines.push('');
+  const count = (s: Status) => result.circuits.filter((c) => c.verdict === s).length;
+  lines.push(
+    `${plural(result.circuits.length, 'circuit')}: ${count('pass')} pass, ${count('fail')} fail, ${count('undetermined')} undetermined`,
+  );
+  return `${lines.join('\n')}\n`;
+}
+
+function circuitRow(c: CircuitResult): string[] {
+  return [
+    STATUS_WORD[c.verdict],
+    c.id,
+    c.from,
+    c.device,
+    kA(c.origin.ik3max),
+    kA(c.end.ik1min),
+    energy(c.withstand),
+    c.letThrough === null ? '-' : energy(c.letThrough),
+    c.thresholdLength === null ? 'none' : metres(c.thresholdLength),
+    c.maxLength === null ? '-' : metres(c.maxLength),
+    c.checks
+      .filter((k) => k.status !== 'pass')
+      .map((k) => `${CHECK_WORD[k.name]}${k.status === 'undetermined' ? '?' : ''}`)
+      .join(', '),
+  ];
+}
+
+function checkValue(name: CheckResult['name'], v: number): string {
+  switch (name) {
+    case 'thermal_withstand':
+      return energy(v);
+    case 'breaking_capacity':
+      return kA(v);
+    case 'disconnection':
+      return v < 0.1 ? `${Number((v * 1000).toPrecision(3))} ms` : `${Number(v.toPrecision(3))} s`;
+    case 'voltage_drop':
+      return `${v.toFixed(2)} %`;
+  }
+}
+
+function kA(a: number): string {
+  return a >= 1000 ? `${(a / 1000).toFixed(2)} kA` : `${a.toFixed(0)} A`;
+}
+
+function energy(a2s: number): string {
+  return `${a2s.toExponential(2)} A2s`;
+}
+
+function metres(m: number): string {
+  return m >= 10_000 ? '>10 km' : `${m.toFixed(1)} m`;
+}
+
+/** Plain-text columns, padded; numbers right-aligned. */
+function table(head: string[], rows: string[][], right: boolean[]): string {
+  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i]?.length ?? 0)));
+  const cell = (s: string, i: number) => (right[i] ? s.padStart(widths[i]!) : s.padEnd(widths[i]!));
+  const line = (r: string[]) => `  ${r.map(cell).join('  ')}`.trimEnd();
+  return [line(head), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n');
+}
+
+/** Code-unit order, so the table does not depend on the machine's locale. */
+function byText(a: string, b: string): number {
+  return a < b ? -1 : a > b ? 1 : 0;
+}

@@ -1,0 +1,95 @@
+// The dossier: the summary and every sheet merged page for page (the sheets are laid out once),
+// with a PDF outline (bookmarks): the summary, then one entry per circuit. pdf-lib writes no clock
+// and no random id here; dates come from the project, the object layout is fixed.
+
+import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef } from 'pdf-lib';
+
+export interface DossierPart {
+  bytes: Uint8Array;
+  title: string; // outline entry, plain text
+}
+
+export interface DossierMeta {
+  title: string;
+  subject: string;
+  date: Date;
+  summaryTitle: string;
+  sheetsTitle: string;
+}
+
+/** Pages of a PDF we wrote. */
+export async function pageCount(bytes: Uint8Array): Promise<number> {
+  return (await PDFDocument.load(bytes, { updateMetadata: false })).getPageCount();
+}
+
+interface OutlineNode {
+  title: string;
+  page: PDFRef;
+  children: OutlineNode[];
+}
+
+/** Merge the summary and the sheets into one PDF with bookmarks. */
+export async function mergeDossier(summary: DossierPart, sheets: DossierPart[], meta: DossierMeta): Promise<Uint8Array> {
+  const out = await PDFDocument.create({ updateMetadata: false });
+  const firstPages: PDFRef[] = [];
+  for (const part of [summary, ...sheets]) {
+    const doc = await PDFDocument.load(part.bytes, { updateMetadata: false });
+    const pages = await out.copyPages(doc, doc.getPageIndices());
+    pages.forEach((p) => out.addPage(p));
+    firstPages.push(pages[0].ref);
+  }
+  writeOutline(out, [
+    { title: meta.summaryTitle, page: firstPages[0], children: [] },
+    ...(sheets.length
+      ? [{ title: meta.sheetsTitle, page: firstPages[1], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[i + 1], children: [] })) }]
+      : []),
+  ]);
+  out.setTitle(meta.title);
+  out.setSubject(meta.subject);
+  out.setCreator('faultsheet');
+  out.setProducer('faultsheet');
+  out.setCreationDate(meta.date);
+  out.setModificationDate(meta.date);
+  return out.save({ useObjectStreams: false, addDefaultPage: false, updateFieldAppearances: false });
+}
+
+/** Write /Outlines into the catalog (PDF 32000-1:2008, 12.3.3), every level open. */
+function writeOutline(doc: PDFDocument, nodes: OutlineNode[]): void {
+  const ctx = doc.context;
+  const rootRef = ctx.nextRef();
+  const build = (items: OutlineNode[], parent: PDFRef): { first: PDFRef; last: PDFRef; count: number } => {
+    const refs = items.map(() => ctx.nextRef());
+    let count = 0;
+    items.forEach((item, i) => {
+      const dict = ctx.obj({}) as PDFDict;
+      dict.set(PDFName.of('Title'), PDFHexString.fromText(item.title));
+      dict.set(PDFName.of('Parent'), parent);
+      if (i > 0) dict.set(PDFName.of('Prev'), refs[i - 1]);
+      if (i < items.length - 1) dict.set(PDFName.of('Next'), refs[i + 1]);
+      const dest = PDFArray.withContext(ctx);
+      dest.push(item.page);
+      dest.push(PDFName.of('Fit'));
+      dict.set(PDFName.of('Dest'), dest);
+      count += 1;
+      if (item.children.length) {
+        const sub = build(item.children, refs[i]);
+        dict.set(PDFName.of('First'), sub.first);
+        dict.set(PDFName.of('Last'), sub.last);
+        dict.set(PDFName.of('Count'), PDFNumber.of(sub.count));
+        count += sub.count;
+      }
+      ctx.assign(refs[i], dict);
+    });
+    return { first: refs[0], last: refs[refs.length - 1], count };
+  };
+  const root = ctx.obj({ Type: 'Outlines' }) as PDFDict;
+  if (nodes.length) {
+    const top = build(nodes, rootRef);
+    root.set(PDFName.of('First'), top.first);
+    root.set(PDFName.of('Last'), top.last);
+    root.set(PDFName.of('Count'), PDFNumber.of(top.count));
+  }
+  ctx.assign(rootRef, root);
+  doc.catalog.set(PDFName.of('Outlines'), rootRef);
+  doc.catalog.set(PDFName.of('PageMode'), PDFName.of('UseOutlines'));
+}

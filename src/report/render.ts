@@ -1,0 +1,185 @@
+// Serialisation: pdfmake's printer, the chart canvas and the fonts, in one place. Everything else
+// in the report is pure layout. The PDF info dates come from the document definition (the project
+// date), so the same definition gives the same bytes; pdfkit's /ID is an MD5 of that info.
+
+import PdfPrinter from 'pdfmake';
+import type { TDocumentDefinitions } from 'pdfmake/interfaces.js';
+import { ChartJSNodeCanvas } from 'chartjs-node-canvas';
+import type { Chart, Plugin } from 'chart.js';
+import { FONT } from './layout.js';
+import { CHART_FONT, CHART_HEIGHT, CHART_WIDTH, type MarksOptions, type SheetChart } from './charts.js';
+import { fontFiles, readFonts } from './assets.js';
+import { createRequire } from 'node:module';
+import path from 'node:path';
+
+/** What the build needs from a renderer (a test may inject one that fails). */
+export interface Renderer {
+  chart(config: SheetChart): Buffer;
+  pdf(doc: TDocumentDefinitions, images?: Record<string, Buffer>): Promise<Buffer>;
+}
+
+/** Draws the shaded current range and the vertical markers of a chart (options.plugins.fsMarks). */
+const marksPlugin: Plugin<'scatter', MarksOptions> = {
+  id: 'fsMarks',
+  beforeDatasetsDraw(chart: Chart, _args: unknown, opts: MarksOptions) {
+    const area = chart.chartArea;
+    const x = chart.scales.x;
+    const ctx = chart.ctx;
+    for (const band of opts?.bands ?? []) {
+      if (!(band.to > band.from)) continue;
+      const x0 = Math.max(area.left, x.getPixelForValue(band.from));
+      const x1 = Math.min(area.right, x.getPixelForValue(band.to));
+      if (x1 <= x0) continue;
+      ctx.save();
+      ctx.fillStyle = band.color;
+      ctx.fillRect(x0, area.top, x1 - x0, area.bottom - area.top);
+      ctx.fillStyle = '#7a4a00';
+      ctx.font = `13px ${CHART_FONT}`;
+      ctx.textAlign = 'center';
+      ctx.textBaseline = 'top';
+      const label = band.label;
+      const width = ctx.measureText(label).width;
+      const cx = Math.min(Math.max((x0 + x1) / 2, area.left + width / 2 + 2), area.right - width / 2 - 2);
+      ctx.fillText(label, cx, area.top + 4);
+      ctx.restore();
+    }
+  },
+  afterDatasetsDraw(chart: Chart, _args: unknown, opts: MarksOptions) {
+    const area = chart.chartArea;
+    const x = chart.scales.x;
+    const ctx = chart.ctx;
+    const lines = [...(opts?.lines ?? [])]
+      .map((l) => ({ ...l, px: x.getPixelForValue(l.x) }))
+      .filter((l) => Number.isFinite(l.px) && l.px >= area.left - 0.5 && l.px <= area.right + 0.5)
+      .sort((a, b) => a.px - b.px);
+    // labels run upwards beside their line; close neighbours alternate sides and heights
+    let lastPx = -Infinity;
+    let lastSide = -1;
+    let stagger = 0;
+    for (const l of lines) {
+      ctx.save();
+      ctx.strokeStyle = l.color;
+      ctx.lineWidth = 2;
+      ctx.setLineDash(l.dash ?? []);
+      ctx.beginPath();
+      ctx.moveTo(l.px, area.top);
+      ctx.lineTo(l.px, area.bottom);
+      ctx.stroke();
+      const close = l.px - lastPx < 34;
+      const side = close ? -lastSide : l.px > area.right - 24 ? -1 : 1;
+      stagger = close ? stagger + 1 : 0;
+      ctx.setLineDash([]);
+      ctx.fillStyle = l.color;
+      ctx.font = `bold 13px ${CHART_FONT}`;
+      ctx.translate(l.px + side * 5, area.bottom - 8 - (stagger % 2) * 150);
+      ctx.rotate(-Math.PI / 2);
+      ctx.textAlign = 'left';
+      ctx.textBaseline = side > 0 ? 'top' : 'bottom';
+      ctx.fillText(l.label, 0, 0);
+      ctx.restore();
+      lastPx = l.px;
+      lastSide = side;
+    }
+  },
+};
+
+/** White page under the chart (the canvas is opaque RGB24, so "destination-over" fills do nothing). */
+const whitePlugin: Plugin = {
+  id: 'fsWhite',
+  beforeDraw(chart: Chart) {
+    const ctx = chart.ctx;
+    ctx.save();
+    ctx.globalCompositeOperation = 'source-over';
+    ctx.fillStyle = '#ffffff';
+    ctx.fillRect(0, 0, chart.width, chart.height);
+    ctx.restore();
+  },
+};
+
+let shared: Renderer | null = null;
+
+/** The process-wide renderer (one printer, one chart canvas, fonts read once). */
+export function defaultRenderer(): Renderer {
+  if (!shared) shared = createRenderer();
+  return shared;
+}
+
+/**
+ * pdfkit parses a font file anew for every document (a fifth of a sheet's time). Our four font
+ * buffers never change, so their parsed fontkit fonts are kept and reused; each document still
+ * makes its own subset. Only these buffers are cached; any other font goes the usual way.
+ */
+function reuseParsedFonts(buffers: Buffer[]): void {
+  const require = createRequire(import.meta.url);
+  const pdfkitMain = require.resolve('@foliojs-fork/pdfkit', { paths: [path.dirname(require.resolve('pdfmake'))] });
+  const fontkit = createRequire(pdfkitMain)('@foliojs-fork/fontkit') as { create: (buf: Buffer, name?: string) => unknown; __faultsheetCache?: Map<Buffer, unknown> };
+  if (fontkit.__faultsheetCache) {
+    for (const b of buffers) fontkit.__faultsheetCache.set(b, undefined);
+    return;
+  }
+  const cache = new Map<Buffer, unknown>(buffers.map((b) => [b, undefined]));
+  const create = fontkit.create.bind(fontkit);
+  fontkit.__faultsheetCache = cache;
+  fontkit.create = (buf: Buffer, name?: string) => {
+    if (name !== undefined || !cache.has(buf)) return create(buf, name);
+    let font = cache.get(buf);
+    if (font === undefined) {
+      font = create(buf);
+      cache.set(buf, font);
+    }
+    return font;
+  };
+}
+
+export function createRenderer(): Renderer {
+  const fonts = readFonts();
+  reuseParsedFonts([fonts.normal, fonts.bold, fonts.italics, fonts.bolditalics]);
+  const printer = new PdfPrinter({ [FONT]: { normal: fonts.normal, bold: fonts.bold, italics: fonts.italics, bolditalics: fonts.bolditalics } });
+  const canvas = new ChartJSNodeCanvas({
+    width: CHART_WIDTH,
+    height: CHART_HEIGHT,
+    chartCallback: (chartJs) => {
+      chartJs.register(whitePlugin, marksPlugin as unknown as Plugin);
+      chartJs.defaults.font.family = CHART_FONT;
+    },
+  });
+  // The charts use the font file the PDF embeds, not whatever the machine has installed.
+  canvas.registerFont(fontFiles.normal, { family: CHART_FONT });
+  canvas.registerFont(fontFiles.bold, { family: CHART_FONT, weight: 'bold' });
+  opaquePng(canvas);
+  return {
+    chart: (config) => canvas.renderToBufferSync(config as never, 'image/png'),
+    pdf: (doc, images = {}) =>
+      new Promise<Buffer>((resolve, reject) => {
+        try {
+          // pdfmake's image dictionary takes data URLs (not buffers) in node
+          const urls = Object.fromEntries(Object.entries(images).map(([k, v]) => [k, `data:image/png;base64,${v.toString('base64')}`]));
+          const pdf = printer.createPdfKitDocument({ ...doc, images: { ...(doc.images ?? {}), ...urls } });
+          const chunks: Buffer[] = [];
+          pdf.on('data', (c: Buffer) => chunks.push(c));
+          pdf.on('end', () => resolve(Buffer.concat(chunks)));
+          pdf.on('error', reject);
+          pdf.end();
+        } catch (err) {
+          reject(err);
+        }
+      }),
+  };
+}
+
+/**
+ * Charts are drawn on an opaque (RGB24) canvas so the PNG has no alpha channel: pdfkit then embeds
+ * it as it is, instead of decoding it to split off the alpha (a large share of a sheet's time).
+ * Uses chartjs-node-canvas's canvas factory; if that ever changes, charts stay correct, only slower.
+ */
+function opaquePng(canvas: ChartJSNodeCanvas): void {
+  const target = canvas as unknown as { _createCanvas?: (w: number, h: number, type?: string) => unknown };
+  const create = target._createCanvas;
+  if (typeof create !== 'function') return;
+  target._createCanvas = (w: number, h: number, type?: string) => {
+    const c = create(w, h, type) as { getContext: (kind: string, attrs?: object) => unknown };
+    const getContext = c.getContext.bind(c);
+    c.getContext = (kind: string, attrs?: object) => getContext(kind, { ...(attrs ?? {}), pixelFormat: 'RGB24' });
+    return c;
+  };
+}

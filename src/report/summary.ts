@@ -1,0 +1,268 @@
+// The project summary as a pdfmake document definition: cover, the board tree with each board's
+// fault levels, the index of circuits (failing first) and every non-passing check in words.
+
+import type { Column, Content, TDocumentDefinitions, TableCell } from 'pdfmake/interfaces.js';
+import type { Project, Supply } from '../model/types.js';
+import type { BoardResult, CircuitResult, ProjectResult, Status } from '../calc/types.js';
+import * as fmt from './format.js';
+import { literal, unmark } from './typeset.js';
+import type { TemplateSet } from './templates.js';
+import { COLOURS, FONT, MARGIN_X, TOP_MARGIN, blocksToContent, dataTable, pageText, signoffBlocks, statusCell, styles, t, titleBlock } from './layout.js';
+import { checkValue, projectDate } from './sheet.js';
+
+export interface SummaryOptions {
+  templates: TemplateSet;
+  /** First page of each circuit's sheet in dossier.pdf (1-based), where known. */
+  dossierPages?: ReadonlyMap<string, number>;
+}
+
+const VERDICT_ORDER: Record<Status, number> = { fail: 0, undetermined: 1, pass: 2 };
+
+/** Circuits in index order: failing first, then undetermined, then passing; by id within each. */
+export function indexOrder(circuits: readonly CircuitResult[]): CircuitResult[] {
+  return [...circuits].sort((a, b) => VERDICT_ORDER[a.verdict] - VERDICT_ORDER[b.verdict] || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+}
+
+function supplyText(s: Supply): string {
+  if (s.kind === 'transformer') {
+    const tr = s.transformer;
+    const net = s.network ? `, network ${fmt.voltAmps(s.network.faultLevel)}` : ', infinite bus';
+    return `transformer ${fmt.voltAmps(tr.rating, 1e7)}, ${fmt.volts(tr.primaryVoltage)} / ${fmt.volts(tr.secondaryVoltage)}, u_kr = ${fmt.significant(tr.impedance * 100, 3)} %${net}`;
+  }
+  return `LV service, declared I''k = ${fmt.kiloamps(s.faultCurrent)}`;
+}
+
+interface TreeRow {
+  depth: number;
+  last: boolean[]; // for each level, whether the node on the path is its parent's last child
+  kind: 'supply' | 'board';
+  id: string;
+  via: string; // circuit feeding the board
+  board?: BoardResult;
+  supply?: Supply;
+}
+
+/** The tree supply -> board -> boards fed by its circuits, depth first, ids sorted. */
+export function boardTree(project: Project, result: ProjectResult): TreeRow[] {
+  const boards = new Map(result.boards.map((b) => [b.id, b]));
+  const feeder = new Map<string, CircuitResult>(); // board id -> circuit feeding it
+  for (const c of result.circuits) if (c.to && boards.has(c.to)) feeder.set(c.to, c);
+  const children = (boardId: string): BoardResult[] =>
+    result.circuits
+      .filter((c) => c.from === boardId && c.to && boards.has(c.to))
+      .map((c) => boards.get(c.to!)!)
+      .sort((a, b) => (a.id < b.id ? -1 : 1));
+  const rows: TreeRow[] = [];
+  const seen = new Set<string>();
+  const walk = (b: BoardResult, depth: number, last: boolean[]): void => {
+    if (seen.has(b.id)) return; // a loop would be a validation error upstream; never recurse twice
+    seen.add(b.id);
+    rows.push({ depth, last, kind: 'board', id: b.id, via: feeder.get(b.id)?.id ?? '', board: b });
+    const kids = children(b.id);
+    kids.forEach((k, i) => walk(k, depth + 1, [...last, i === kids.length - 1]));
+  };
+  const supplies = [...project.supplies];
+  supplies.forEach((s, si) => {
+    rows.push({ depth: 0, last: [si === supplies.length - 1], kind: 'supply', id: s.id, via: '', supply: s });
+    const roots = result.boards.filter((b) => b.fedBy === s.id).sort((a, b) => (a.id < b.id ? -1 : 1));
+    roots.forEach((b, i) => walk(b, 1, [si === supplies.length - 1, i === roots.length - 1]));
+  });
+  for (const b of result.boards) if (!seen.has(b.id)) walk(b, 1, [true, true]); // orphan: still listed
+  return rows;
+}
+
+function treeCell(row: TreeRow): TableCell {
+  const STEP = 13;
+  const cols: Column[] = [];
+  for (let level = 1; level < row.depth; level++) cols.push({ width: STEP, text: row.last[level] ? '' : '│', color: COLOURS.rule });
+  if (row.depth > 0) cols.push({ width: STEP, text: row.last[row.depth] ? '└─' : '├─', color: COLOURS.rule });
+  const label: Column =
+    row.kind === 'supply'
+      ? { width: '*', text: [{ text: unmark(row.id), bold: true, color: COLOURS.accent }, { text: '  ' }, ...t(supplyText(row.supply!)).map((r) => ({ ...r, fontSize: 6.8, color: COLOURS.faint }))] }
+      : { width: '*', text: [{ text: unmark(row.id), bold: true }, ...(row.via ? [{ text: `  via ${unmark(row.via)}`, fontSize: 6.8, color: COLOURS.faint }] : [])] };
+  return { columns: [...cols, label], columnGap: 0, style: 'td' } as TableCell;
+}
+
+/** The pdfmake document definition of summary.pdf. */
+export function summaryDocument(project: Project, result: ProjectResult, opts: SummaryOptions): TDocumentDefinitions {
+  const tpl = opts.templates;
+  const labels = tpl.labels('summary/labels.hbs');
+  const sheetLabels = tpl.labels('sheet/labels.hbs');
+  const statusWord = (s: Status): string => sheetLabels[`status.${s}`] ?? s.toUpperCase();
+  const checkLabel = (n: string): string => sheetLabels[`check.${n}`] ?? n;
+  const ordered = indexOrder(result.circuits);
+  const numberOf = new Map(result.circuits.map((c, i) => [c.id, i + 1]));
+  const counts = {
+    total: result.circuits.length,
+    pass: result.circuits.filter((c) => c.verdict === 'pass').length,
+    fail: result.circuits.filter((c) => c.verdict === 'fail').length,
+    undetermined: result.circuits.filter((c) => c.verdict === 'undetermined').length,
+  };
+  const illustrative = project.devices.filter((d) => d.illustrative && result.circuits.some((c) => c.device === d.id));
+  const failing = ordered
+    .filter((c) => c.verdict !== 'pass')
+    .flatMap((c) =>
+      c.checks
+        .filter((k) => k.status !== 'pass')
+        .map((k) => ({
+          circuit: literal(c.id),
+          check: checkLabel(k.name),
+          status: k.status,
+          statusWord: statusWord(k.status),
+          value: checkValue(k, 'value'),
+          limit: checkValue(k, 'limit'),
+          explanation: k.explanation || k.governing,
+          fail: k.status === 'fail',
+        })),
+    );
+  const context = {
+    project: {
+      name: literal(project.meta.name),
+      number: literal(project.meta.number),
+      revision: literal(project.meta.revision),
+      date: literal(project.meta.date),
+      client: project.meta.client ? literal(project.meta.client) : null,
+      hash: project.inputSha256,
+      hashShort: project.inputSha256.slice(0, 12),
+      criterion: project.settings.withstandCriterion,
+      voltage: fmt.volts(project.settings.systemVoltage),
+      earthing: project.settings.earthing,
+    },
+    counts,
+    anyFailing: failing.length > 0,
+    failing,
+    illustrative: illustrative.length > 0,
+    illustrativeDevices: illustrative.map((d) => literal(d.id)),
+    assumptions: project.assumptions.map((a, i) => ({ number: `P${i + 1}`, text: literal(a) })),
+    defaults: project.defaults.map((d, i) => ({ number: `P${project.assumptions.length + i + 1}`, field: literal(d.field), value: d.value, source: d.source })),
+    labels,
+  };
+  const section = (name: string, slots: Record<string, Content[]>): Content[] => blocksToContent(tpl.render(`summary/${name}.hbs`, context), slots);
+
+  const title: Content = {
+    stack: [
+      { text: t(labels['cover.kicker']), fontSize: 9, color: COLOURS.faint, margin: [0, 30, 0, 4] },
+      { text: unmark(project.meta.name), fontSize: 22, bold: true, color: COLOURS.accent },
+      { text: t(labels['cover.title']), fontSize: 13, margin: [0, 4, 0, 16] },
+    ],
+  };
+  const facts = dataTable(
+    [150, '*'],
+    [labels['facts.item'], labels['facts.value']],
+    [
+      [labels['facts.number'], [{ text: unmark(project.meta.number) }]],
+      [labels['facts.revision'], [{ text: unmark(project.meta.revision) }]],
+      [labels['facts.date'], [{ text: unmark(project.meta.date) }]],
+      ...(project.meta.client ? [[labels['facts.client'], [{ text: unmark(project.meta.client) }]]] : []),
+      [labels['facts.system'], `${fmt.volts(project.settings.systemVoltage)}, ${fmt.significant(project.settings.frequency, 2)} Hz, ${project.settings.earthing}`],
+      [labels['facts.criterion'], project.settings.withstandCriterion],
+      ...project.supplies.map((s) => [`${labels['facts.supply']} ${unmark(s.id)}`, supplyText(s)]),
+      [labels['facts.circuits'], `${counts.total}: ${counts.pass} ${statusWord('pass')}, ${counts.fail} ${statusWord('fail')}, ${counts.undetermined} ${statusWord('undetermined')}`],
+      [labels['facts.hash'], { text: project.inputSha256, fontSize: 6.6, style: 'td' } as TableCell],
+    ] as Array<Array<string | TableCell>>,
+  );
+  const signoff = signoffBlocks(
+    [
+      { word: sheetLabels['prepared'], person: project.signoff.preparedBy },
+      { word: sheetLabels['checked'], person: project.signoff.checkedBy },
+      { word: sheetLabels['approved'], person: project.signoff.approvedBy },
+    ],
+    { name: sheetLabels['name'], role: sheetLabels['role'], signature: sheetLabels['signature'], date: sheetLabels['signDate'] },
+  );
+
+  const treeRows = boardTree(project, result);
+  const boardCircuits = (id: string): CircuitResult[] => result.circuits.filter((c) => c.from === id);
+  const tree = dataTable(
+    ['*', 52, 52, 52, 40, 84],
+    [labels['tree.node'], "I''k3max", 'i_p', "I''k1min", 'Delta u', labels['tree.circuits']],
+    treeRows.map((r) => {
+      if (r.kind === 'supply') return [{ ...(treeCell(r) as object), colSpan: 6 } as TableCell, '', '', '', '', ''];
+      const b = r.board!;
+      const cs = boardCircuits(b.id);
+      const bad = cs.filter((c) => c.verdict !== 'pass').length;
+      return [
+        treeCell(r),
+        fmt.kiloamps(b.ik3max),
+        fmt.kiloamps(b.ip),
+        fmt.kiloamps(b.ik1min),
+        fmt.percent(b.voltageDrop),
+        { text: bad ? `${cs.length} (${bad} ${labels['tree.notPassing']})` : String(cs.length), color: bad ? COLOURS.fail : COLOURS.ink, style: 'td' } as TableCell,
+      ];
+    }),
+    { align: ['left', 'right', 'right', 'right', 'right', 'left'] },
+  );
+
+  const index = dataTable(
+    [18, 60, '*', 60, 62, 52, 64, 24],
+    ['No.', labels['index.circuit'], labels['index.description'], labels['index.fromTo'], labels['index.device'], labels['index.cable'], labels['index.verdict'], labels['index.page']],
+    ordered.map((c) => {
+      const circuit = project.circuits.find((x) => x.id === c.id);
+      const cable = circuit ? `${circuit.cable.size.label}${circuit.cable.parallel > 1 ? ` x ${circuit.cable.parallel}` : ''}, ${fmt.metres(circuit.cable.length)}` : '';
+      const bad = c.checks.filter((k) => k.status !== 'pass').map((k) => sheetLabels[`short.${k.name}`] ?? k.name);
+      const page = opts.dossierPages?.get(c.id);
+      return [
+        String(numberOf.get(c.id) ?? ''),
+        { text: unmark(c.id), bold: true, style: 'td' } as TableCell,
+        { text: unmark(c.description), style: 'td' } as TableCell,
+        { text: `${unmark(c.from)} → ${c.to ? unmark(c.to) : '—'}`, style: 'td' } as TableCell,
+        { text: unmark(c.device), style: 'td' } as TableCell,
+        { text: t(cable), style: 'td' } as TableCell,
+        { stack: [statusCell(c.verdict, sheetLabels) as Content, ...(bad.length ? [{ text: bad.join(', '), style: 'small' }] : [])], style: 'td' } as TableCell,
+        { text: page != null ? String(page) : '', alignment: 'right', style: 'td' } as TableCell,
+      ];
+    }),
+  );
+
+  const content: Content[] = [
+    ...section('cover', { title: [title], facts: [facts], signoff: [signoff] }),
+    { text: '', pageBreak: 'after' },
+    ...section('tree', { tree: [tree] }),
+    ...section('index', { index: [index] }),
+    ...section('failing', {}),
+    ...section('assumptions', {}),
+  ];
+
+  const date = projectDate(project.meta.date);
+  return {
+    info: {
+      title: `${unmark(project.meta.name)} — ${labels['document']}`,
+      subject: labels['info.subject'],
+      creator: 'faultsheet',
+      producer: 'faultsheet',
+      creationDate: date,
+      modDate: date,
+    },
+    pageSize: 'A4',
+    pageMargins: [MARGIN_X, TOP_MARGIN, MARGIN_X, 40],
+    defaultStyle: { font: FONT, fontSize: 7.8, lineHeight: 1.12, color: COLOURS.ink },
+    styles,
+    header: (page: number, pages: number) =>
+      titleBlock({
+        projectName: project.meta.name,
+        number: project.meta.number,
+        revision: project.meta.revision,
+        date: project.meta.date,
+        subjectLabel: labels['documentLabel'],
+        subject: labels['document'],
+        pageLabel: pageText(sheetLabels['pageOf'], page, pages),
+        partLabel: labels['circuitsLabel'],
+        part: String(result.circuits.length),
+        hashLabel: sheetLabels['inputHash'],
+        hash: project.inputSha256.slice(0, 12),
+        signoff: [
+          { label: sheetLabels['prepared'], name: project.signoff.preparedBy?.name ?? '' },
+          { label: sheetLabels['checked'], name: project.signoff.checkedBy?.name ?? '' },
+          { label: sheetLabels['approved'], name: project.signoff.approvedBy?.name ?? '' },
+        ],
+        labels: { project: sheetLabels['project'], number: sheetLabels['number'], revision: sheetLabels['revision'], date: sheetLabels['date'], page: sheetLabels['sheet'] },
+      }),
+    footer: (page: number, pages: number) => ({
+      margin: [MARGIN_X, 12, MARGIN_X, 0],
+      columns: [
+        { text: t(sheetLabels['footer']), style: 'small', width: '*' },
+        { text: `${labels['document']} · ${pageText(sheetLabels['sheetOf'], page, pages)}`, style: 'small', alignment: 'right', width: 'auto' },
+      ],
+    }),
+    content,
+  };
+}

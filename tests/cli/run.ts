@@ -1,0 +1,52 @@
+// Runs the command line in-process with fake streams (faster than spawning a process).
+
+import { Writable } from 'node:stream';
+import { mkdtemp, rm } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { main } from '../../src/cli.js';
+
+export const repoRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+export const demoDir = (name: string) => path.join(repoRoot, 'projects-demo', name);
+
+export interface Captured {
+  stream: Writable & { isTTY?: boolean };
+  text: () => string;
+}
+
+export function capture(isTTY = false): Captured {
+  let text = '';
+  const stream = new Writable({
+    write(chunk, _encoding, done) {
+      text += chunk.toString();
+      done();
+    },
+  }) as Writable & { isTTY?: boolean };
+  stream.isTTY = isTTY;
+  return { stream, text: () => text };
+}
+
+export interface RunResult {
+  code: number;
+  stdout: string;
+  stderr: string;
+}
+
+export async function run(argv: string[], cwd = repoRoot): Promise<RunResult> {
+  const out = capture();
+  const err = capture();
+  const code = await main({ argv, cwd, stdout: out.stream, stderr: err.stream });
+  return { code, stdout: out.text(), stderr: err.text() };
+}
+
+/** A fresh temporary folder, removed by the returned function. */
+export async function tempDir(): Promise<{ dir: string; remove: () => Promise<void> }> {
+  const dir = await mkdtemp(path.join(os.tmpdir(), 'faultsheet-cli-'));
+  return { dir, remove: () => rm(dir, { recursive: true, force: true }) };
+}
+
+/** True where text looks like a JavaScript stack trace. */
+export function hasStack(text: string): boolean {
+  return /^\s+at .+[:(]/m.test(text);
+}
