@@ -1,6 +1,7 @@
 // The project summary as a pdfmake document definition: cover, the board tree with each board's
 // fault levels, the index of circuits (failing first) and every non-passing check in words.
 
+import { boardTreeDrawing } from './tree-drawing.js';
 import type { Column, Content, TDocumentDefinitions, TableCell } from 'pdfmake/interfaces.js';
 import type { Project, Supply } from '../model/types.js';
 import type { BoardResult, CircuitResult, ProjectResult, Status } from '../calc/types.js';
@@ -171,6 +172,7 @@ export function summaryDocument(project: Project, result: ProjectResult, opts: S
   );
 
   const treeRows = boardTree(project, result);
+  const drawing = boardTreeDrawing(project, result);
   const boardCircuits = (id: string): CircuitResult[] => result.circuits.filter((c) => c.from === id);
   const tree = dataTable(
     ['*', 52, 52, 52, 40, 84],
@@ -216,7 +218,7 @@ export function summaryDocument(project: Project, result: ProjectResult, opts: S
   const content: Content[] = [
     ...section('cover', { title: [title], facts: [facts], signoff: [signoff] }),
     { text: '', pageBreak: 'after' },
-    ...section('tree', { tree: [tree] }),
+    ...section('tree', { tree: [...(drawing ? [{ svg: drawing.svg, width: drawing.width, font: FONT, alignment: 'center', margin: [0, 4, 0, 10] } as Content] : []), tree] }),
     ...section('index', { index: [index] }),
     ...section('failing', {}),
     ...section('assumptions', {}),
