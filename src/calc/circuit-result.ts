@@ -124,8 +124,8 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
       symbol: 'ΔU',
       value: ev.voltageDrop.total,
       unit: '%',
-      formula: 'ΔU_from + √3·I_b·(R·cos φ + X·sin φ)/U_n',
-      substitution: `${sig(ev.voltageDrop.total - ev.voltageDrop.own, 3)} % + √3 × ${fmt.current(circuit.load.current)} × (${fmt.ohm(vd.r)} × ${sig(circuit.load.powerFactor, 3)} + ${fmt.ohm(vd.x)} × ${sig(Math.sqrt(1 - circuit.load.powerFactor ** 2), 3)}) / ${fmt.voltage(un)} (R at ${vd.temperature} °C)`,
+      formula: circuit.load.phases === 1 ? 'ΔU_from + 2·I_b·(R·cos φ + X·sin φ)/U_0, U_0 = U_n/√3' : 'ΔU_from + √3·I_b·(R·cos φ + X·sin φ)/U_n',
+      substitution: `${sig(ev.voltageDrop.total - ev.voltageDrop.own, 3)} % + ${circuit.load.phases === 1 ? '2' : '√3'} × ${fmt.current(circuit.load.current)} × (${fmt.ohm(vd.r)} × ${sig(circuit.load.powerFactor, 3)} + ${fmt.ohm(vd.x)} × ${sig(Math.sqrt(1 - circuit.load.powerFactor ** 2), 3)}) / ${fmt.voltage(circuit.load.phases === 1 ? un / Math.sqrt(3) : un)} (R at ${vd.temperature} °C)`,
       reference: REF.voltageDrop,
     });
   }

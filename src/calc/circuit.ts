@@ -86,14 +86,19 @@ function disconnectionFor(c: CircuitCase, end: FaultPoint): DisconnectionOutcome
   return { status, current: end.ik1min, point, limit };
 }
 
-/** 3-phase voltage drop sqrt(3) I_b L (R cos phi + X sin phi) / U_n in percent, R at max operating temperature. */
+/**
+ * Voltage drop in percent, IEC 60364-5-52:2009 Annex G: u = b (R cos phi + X sin phi) I_b with b = 1 for a
+ * three-phase and b = 2 for a single-phase circuit, over U_0 = U_n / sqrt(3); for three phases this is
+ * sqrt(3) I_b L (R cos phi + X sin phi) / U_n. R at the insulation's maximum operating temperature.
+ */
 export function cableVoltageDrop(settings: Settings, cable: Cable, load: Load, length = cable.length) {
   const temperature = insulationTemperatures(cable.insulation, areaMm2(cable)).initialC;
   const r = (resistanceAt(cable.resistance20, temperature) * length) / cable.parallel;
   const x = (cable.reactance * length) / cable.parallel;
   const cos = load.powerFactor;
   const sin = Math.sqrt(Math.max(0, 1 - cos * cos));
-  const percent = ((Math.sqrt(3) * load.current * (r * cos + x * sin)) / settings.systemVoltage) * 100;
+  const factor = load.phases === 1 ? 2 * Math.sqrt(3) : Math.sqrt(3);
+  const percent = ((factor * load.current * (r * cos + x * sin)) / settings.systemVoltage) * 100;
   return { percent, r, x, temperature };
 }
 

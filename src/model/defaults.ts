@@ -80,6 +80,7 @@ export const CIRCUIT_DEFAULTS = {
     text: '0.8',
     source: 'IEC 60364-5-52:2009 Annex G: cos phi = 0.8 in the absence of precise data',
   } satisfies DefaultValue<number>,
+  phases: { value: 3 as 1 | 3, text: '3', source: `${FORMAT_DEFAULT} (three-phase voltage drop)` } satisfies DefaultValue<1 | 3>,
   voltageDropLimit: {
     value: 5,
     text: '5 %',

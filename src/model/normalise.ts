@@ -374,6 +374,7 @@ export function normaliseCircuit(
     load = {
       current: parsed.load.current,
       powerFactor: parsed.load.power_factor ?? applied(defaults, 'load.power_factor', CIRCUIT_DEFAULTS.powerFactor),
+      phases: parsed.load.phases ?? applied(defaults, 'load.phases', CIRCUIT_DEFAULTS.phases),
     };
   }
   let disconnectionTime = parsed.checks?.disconnection_time;

@@ -381,6 +381,7 @@ export const circuitSchema = z.strictObject({
     .strictObject({
       current: quantity('current', { example: '180 A' }),
       power_factor: withSpec(z.number().gt(0).lte(1), { expected: 'a power factor greater than 0 and at most 1, such as 0.85', unitText: false }).optional(),
+      phases: withSpec(z.union([z.literal(1), z.literal(3)]), { expected: 'the number of phases of the load, 1 (line to neutral) or 3', unitText: false }).optional(),
     })
     .optional(),
   cable: cableSchema,

@@ -149,6 +149,7 @@ export interface Cable {
 export interface Load {
   current: number; // I_b, A
   powerFactor: number; // cos phi
+  phases: 1 | 3; // 1: line to neutral at U_n / sqrt(3), drop in line and neutral; 3: balanced three-phase
 }
 
 export interface Circuit {

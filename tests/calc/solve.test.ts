@@ -19,8 +19,8 @@ describe('one pass from the supply down the board tree', () => {
     supplies: [transformer],
     devices: [device({ id: 'ACB', kind: 'acb', rating: 630, clearingTime: 0.3 }), device({ id: 'MCB', kind: 'mcb', rating: 32, breakingCapacity: 10e3, instantaneous: { pickup: 320, clearingTime: 0.01 }, tripCurve: [{ current: 41.6, value: 3600 }, { current: 319, value: 2 }] })],
     circuits: [
-      circuit({ id: 'MSB-1', from: 'MSB', to: 'DB1', device: 'ACB', cable: cable({ mm2: 185, length: 60, parallel: 2 }), load: { current: 400, powerFactor: 0.85 } }),
-      circuit({ id: 'DB1-1', from: 'DB1', device: 'MCB', cable: { ...cable({ mm2: 6, length: 25 }), insulation: 'PVC' }, load: { current: 25, powerFactor: 0.9 }, checks: { disconnectionTime: 0.4, voltageDropLimit: 5 } }),
+      circuit({ id: 'MSB-1', from: 'MSB', to: 'DB1', device: 'ACB', cable: cable({ mm2: 185, length: 60, parallel: 2 }), load: { current: 400, powerFactor: 0.85, phases: 3 } }),
+      circuit({ id: 'DB1-1', from: 'DB1', device: 'MCB', cable: { ...cable({ mm2: 6, length: 25 }), insulation: 'PVC' }, load: { current: 25, powerFactor: 0.9, phases: 3 }, checks: { disconnectionTime: 0.4, voltageDropLimit: 5 } }),
     ],
   });
   const r = solveProject(p);
@@ -65,6 +65,16 @@ describe('one pass from the supply down the board tree', () => {
     expect(db1.voltageDrop).toBeCloseTo(dSub, 9);
     expect(c.voltageDrop).toBeCloseTo(dSub + dFin, 9);
     expect(c.checks.map((k) => k.name)).toEqual(['thermal_withstand', 'breaking_capacity', 'disconnection', 'voltage_drop']);
+  });
+  it('single-phase drop: b = 2 over U_0 (IEC 60364-5-52:2009 Annex G, G.1), twice the three-phase figure', () => {
+    // hand calculation: 16 A, 30 m of 2.5 mm2 Cu PVC (7.41 ohm/km at 20 degC, IEC 60228 Table 2) at 70 degC,
+    // cos phi = 1: u = 2 x 16 A x 0.2668 ohm = 8.54 V, over U_0 = 230.9 V: 3.70 %
+    const single = solveProject(project({ circuits: [circuit({ cable: { ...cable({ mm2: 2.5, length: 30 }), insulation: 'PVC' }, load: { current: 16, powerFactor: 1, phases: 1 } })] })).circuits[0]!;
+    const r = 7.41e-3 * (1 + 0.004 * 50) * 30;
+    expect(single.voltageDrop).toBeCloseTo(((2 * 16 * r) / (400 / Math.sqrt(3))) * 100, 9);
+    expect(single.voltageDrop).toBeCloseTo(3.7, 2);
+    const three = solveProject(project({ circuits: [circuit({ cable: { ...cable({ mm2: 2.5, length: 30 }), insulation: 'PVC' }, load: { current: 16, powerFactor: 1, phases: 3 } })] })).circuits[0]!;
+    expect(single.voltageDrop! / three.voltageDrop!).toBeCloseTo(2, 9);
   });
   it('a circuit without a load has no voltage-drop check', () => {
     const q = solveProject(project({ circuits: [circuit({ load: undefined })] }));

@@ -181,7 +181,7 @@ describe('a good project', () => {
     const q4 = circuit(project, 'MSB-Q4');
     expect(q4.pos).toEqual({ file: 'circuits/msb-q4.yaml', line: 1, col: 1 });
     expect(q4).toMatchObject({ description: 'Feeder to pump MCC', from: 'MSB', to: 'MCC-1', device: 'MCCB-250' });
-    expect(q4.load).toEqual({ current: 180, powerFactor: 0.85 });
+    expect(q4.load).toEqual({ current: 180, powerFactor: 0.85, phases: 3 }); // phases: the format default, three-phase
     const cable = q4.cable;
     expect(cable.size).toEqual({ label: '95 mm2', system: 'metric', area: 95e-6 });
     expect(cable.length).toBe(45);
@@ -213,6 +213,7 @@ describe('a good project', () => {
       'cable.protective_conductor.arrangement',
       'cable.protective_conductor.parallel',
       'cable.protective_conductor.resistance',
+      'load.phases',
       'checks.disconnection_time',
       'checks.voltage_drop_limit',
     ]);
@@ -244,7 +245,7 @@ describe('a good project', () => {
       resistance20: q2.cable.resistance20,
       resistanceSource: q2.cable.resistanceSource,
     });
-    expect(q2.load).toEqual({ current: 12, powerFactor: 0.8 }); // IEC 60364-5-52:2009 Annex G: cos phi = 0.8
+    expect(q2.load).toEqual({ current: 12, powerFactor: 0.8, phases: 3 }); // IEC 60364-5-52:2009 Annex G: cos phi = 0.8
     expect(defaultOf(q2.defaults, 'load.power_factor')!.source).toContain('IEC 60364-5-52');
     // IEC 60364-4-41:2005 Table 41.1: TN, 120 V < U0 <= 230 V, final circuit <= 32 A: 0.4 s
     expect(q2.checks.disconnectionTime).toBe(0.4);
