@@ -51,6 +51,13 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   if (maxLength === null && ev.disconnection.point !== null && isDefiniteTimeOnly(device)) {
     notes.push('The device operates in a definite time whatever the current (clearing time alone): no maximum protected length follows from it.');
   }
+  const definite = circuit.clearingTime ?? device.clearingTime;
+  const curveStart = device.tripCurve?.[0]?.current;
+  if (definite !== undefined && curveStart !== undefined && ev.end.ik1min < curveStart) {
+    notes.push(
+      `At I″k1min = ${fmt.current(ev.end.ik1min)}, below the trip curve's first point (${fmt.current(curveStart)}), the definite clearing time ${fmt.time(definite)} is applied as written; confirm from the maker's data that the device's short-time or relay pickup is below this current.`,
+    );
+  }
   if (ev.disconnection.point === null) {
     notes.push(`Earthing ${settings.earthing}: the earth-fault loop through earth electrodes is not modelled; disconnection is not determined (IEC 60364-4-41 411.5 / 411.6 need the electrode and insulation data).`);
   }
