@@ -1,8 +1,8 @@
 // Building blocks shared by the sheet and the summary layouts: styles, template blocks to pdfmake
 // content, tables, status cells, the title block, sign-off blocks. Pure: no I/O, no clock.
 
-import type { Content, ContentTable, StyleDictionary, TableCell, TableLayout } from 'pdfmake/interfaces.js';
-import type { Person } from '../model/types.js';
+import type { Content, ContentTable, StyleDictionary, TableCell, TableLayout, TDocumentDefinitions } from 'pdfmake/interfaces.js';
+import type { Person, Project } from '../model/types.js';
 import type { Status } from '../calc/types.js';
 import type { Block, Rendered } from './templates.js';
 import { typeset, unmark, type Run } from './typeset.js';
@@ -310,4 +310,65 @@ export function signoffBlocks(
 /** "Sheet 2 of 5" etc. from a label pattern with {n} and {total}. */
 export function pageText(pattern: string, n: number, total: number): string {
   return pattern.replace('{n}', String(n)).replace('{total}', String(total));
+}
+
+/** The project date as the PDFs' creation and modification date (midnight UTC: reproducible). */
+export function projectDate(iso: string): Date {
+  const d = new Date(`${iso}T00:00:00Z`);
+  if (Number.isNaN(d.getTime())) throw new Error(`internal error: project date "${iso}" is not YYYY-MM-DD`);
+  return d;
+}
+
+/** What differs between the package's documents around the same A4 frame and title block. */
+export interface DocumentFrame {
+  title: string; // PDF info title
+  subject: string; // PDF info subject
+  subjectLabel: string; // title block: what the document is about ("Circuit", "Document")
+  subjectText: string;
+  partLabel: string; // title block: the document's place in the package
+  part: string;
+  footerName: string; // before "sheet n of N" in the footer
+}
+
+/**
+ * An A4 document of the package: PDF info dated from the project, the title block on every page and the
+ * footer. `labels` are the sheet labels (templates/sheet/labels.hbs), shared by every document.
+ */
+export function packageDocument(project: Project, labels: Record<string, string>, frame: DocumentFrame, content: Content[]): TDocumentDefinitions {
+  const date = projectDate(project.meta.date);
+  return {
+    info: { title: frame.title, subject: frame.subject, creator: 'faultsheet', producer: 'faultsheet', creationDate: date, modDate: date },
+    pageSize: 'A4',
+    pageMargins: [MARGIN_X, TOP_MARGIN, MARGIN_X, 40],
+    defaultStyle: { font: FONT, fontSize: 7.8, lineHeight: 1.12, color: COLOURS.ink },
+    styles,
+    header: (page: number, pages: number) =>
+      titleBlock({
+        projectName: project.meta.name,
+        number: project.meta.number,
+        revision: project.meta.revision,
+        date: project.meta.date,
+        subjectLabel: frame.subjectLabel,
+        subject: frame.subjectText,
+        pageLabel: pageText(labels['pageOf']!, page, pages),
+        partLabel: frame.partLabel,
+        part: frame.part,
+        hashLabel: labels['inputHash']!,
+        hash: project.inputSha256.slice(0, 12),
+        signoff: [
+          { label: labels['prepared']!, name: project.signoff.preparedBy?.name ?? '' },
+          { label: labels['checked']!, name: project.signoff.checkedBy?.name ?? '' },
+          { label: labels['approved']!, name: project.signoff.approvedBy?.name ?? '' },
+        ],
+        labels: { project: labels['project']!, number: labels['number']!, revision: labels['revision']!, date: labels['date']!, page: labels['sheet']! },
+      }),
+    footer: (page: number, pages: number) => ({
+      margin: [MARGIN_X, 12, MARGIN_X, 0],
+      columns: [
+        { text: t(labels['footer']!), style: 'small', width: '*' },
+        { text: `${frame.footerName} · ${pageText(labels['sheetOf']!, page, pages)}`, style: 'small', alignment: 'right', width: 'auto' },
+      ],
+    }),
+    content,
+  };
 }

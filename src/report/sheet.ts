@@ -17,13 +17,13 @@ import {
   blocksToContent,
   breakable,
   dataTable,
+  packageDocument,
   pageText,
+  projectDate,
   signoffBlocks,
   statusCell,
   statusColour,
-  styles,
   t,
-  titleBlock,
 } from './layout.js';
 import { CHART_HEIGHT, CHART_WIDTH } from './charts.js';
 
@@ -226,6 +226,7 @@ function cableRows(circuit: Circuit): Row[] {
     rows.push(
       { label: 'Design current I_b', value: fmt.amps(circuit.load.current), field: 'load.current', scope: 'circuit' },
       { label: 'Power factor cos phi', value: circuit.load.powerFactor.toFixed(2), field: 'load.power_factor', scope: 'circuit' },
+      { label: 'Load phases', value: circuit.load.phases === 1 ? '1 (line to neutral)' : '3', field: 'load.phases', scope: 'circuit' },
     );
   else rows.push({ label: 'Load', value: 'not given: voltage drop not checked', field: 'load', scope: 'circuit' });
   rows.push(
@@ -585,56 +586,21 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
     { stack: [...section('signoff', { blocks: [signoff] }), ...section('cautions', {})], unbreakable: true },
   ];
 
-  const subject = `${unmark(cr.id)} — ${unmark(cr.description)}`;
-  const date = projectDate(project.meta.date);
-  return {
-    info: {
+  return packageDocument(
+    project,
+    labels,
+    {
       title: `${unmark(project.meta.name)} — ${unmark(cr.id)}`,
       subject: labels['info.subject'] ?? 'Calculation sheet',
-      creator: 'faultsheet',
-      producer: 'faultsheet',
-      creationDate: date,
-      modDate: date,
+      subjectLabel: labels['circuit']!,
+      subjectText: `${unmark(cr.id)} — ${unmark(cr.description)}`,
+      partLabel: labels['calculation']!,
+      part: pageText(labels['calculationOf']!, opts.index, opts.count),
+      footerName: unmark(cr.id),
     },
-    pageSize: 'A4',
-    pageMargins: [MARGIN_X, TOP_MARGIN, MARGIN_X, 40],
-    defaultStyle: { font: FONT, fontSize: 7.8, lineHeight: 1.12, color: COLOURS.ink },
-    styles,
-    header: (page: number, pages: number) =>
-      titleBlock({
-        projectName: project.meta.name,
-        number: project.meta.number,
-        revision: project.meta.revision,
-        date: project.meta.date,
-        subjectLabel: labels['circuit'],
-        subject,
-        pageLabel: pageText(labels['pageOf'], page, pages),
-        partLabel: labels['calculation'],
-        part: pageText(labels['calculationOf'], opts.index, opts.count),
-        hashLabel: labels['inputHash'],
-        hash: project.inputSha256.slice(0, 12),
-        signoff: [
-          { label: labels['prepared'], name: project.signoff.preparedBy?.name ?? '' },
-          { label: labels['checked'], name: project.signoff.checkedBy?.name ?? '' },
-          { label: labels['approved'], name: project.signoff.approvedBy?.name ?? '' },
-        ],
-        labels: { project: labels['project'], number: labels['number'], revision: labels['revision'], date: labels['date'], page: labels['sheet'] },
-      }),
-    footer: (page: number, pages: number) => ({
-      margin: [MARGIN_X, 12, MARGIN_X, 0],
-      columns: [
-        { text: t(labels['footer']), style: 'small', width: '*' },
-        { text: `${unmark(cr.id)} · ${pageText(labels['sheetOf'], page, pages)}`, style: 'small', alignment: 'right', width: 'auto' },
-      ],
-    }),
     content,
-  };
+  );
 }
 
-/** The project date as the PDFs' creation and modification date (midnight UTC: reproducible). */
-export function projectDate(iso: string): Date {
-  const d = new Date(`${iso}T00:00:00Z`);
-  if (Number.isNaN(d.getTime())) throw new Error(`internal error: project date "${iso}" is not YYYY-MM-DD`);
-  return d;
-}
+export { projectDate };
 

@@ -8,8 +8,8 @@ import type { BoardResult, CircuitResult, ProjectResult, Status } from '../calc/
 import * as fmt from './format.js';
 import { literal, unmark } from './typeset.js';
 import type { TemplateSet } from './templates.js';
-import { COLOURS, FONT, MARGIN_X, TOP_MARGIN, blocksToContent, dataTable, pageText, signoffBlocks, statusCell, styles, t, titleBlock } from './layout.js';
-import { checkValue, projectDate } from './sheet.js';
+import { COLOURS, FONT, blocksToContent, dataTable, packageDocument, signoffBlocks, statusCell, t } from './layout.js';
+import { checkValue } from './sheet.js';
 
 export interface SummaryOptions {
   templates: TemplateSet;
@@ -224,47 +224,18 @@ export function summaryDocument(project: Project, result: ProjectResult, opts: S
     ...section('assumptions', {}),
   ];
 
-  const date = projectDate(project.meta.date);
-  return {
-    info: {
+  return packageDocument(
+    project,
+    sheetLabels,
+    {
       title: `${unmark(project.meta.name)} — ${labels['document']}`,
-      subject: labels['info.subject'],
-      creator: 'faultsheet',
-      producer: 'faultsheet',
-      creationDate: date,
-      modDate: date,
+      subject: labels['info.subject']!,
+      subjectLabel: labels['documentLabel']!,
+      subjectText: labels['document']!,
+      partLabel: labels['circuitsLabel']!,
+      part: String(result.circuits.length),
+      footerName: labels['document']!,
     },
-    pageSize: 'A4',
-    pageMargins: [MARGIN_X, TOP_MARGIN, MARGIN_X, 40],
-    defaultStyle: { font: FONT, fontSize: 7.8, lineHeight: 1.12, color: COLOURS.ink },
-    styles,
-    header: (page: number, pages: number) =>
-      titleBlock({
-        projectName: project.meta.name,
-        number: project.meta.number,
-        revision: project.meta.revision,
-        date: project.meta.date,
-        subjectLabel: labels['documentLabel'],
-        subject: labels['document'],
-        pageLabel: pageText(sheetLabels['pageOf'], page, pages),
-        partLabel: labels['circuitsLabel'],
-        part: String(result.circuits.length),
-        hashLabel: sheetLabels['inputHash'],
-        hash: project.inputSha256.slice(0, 12),
-        signoff: [
-          { label: sheetLabels['prepared'], name: project.signoff.preparedBy?.name ?? '' },
-          { label: sheetLabels['checked'], name: project.signoff.checkedBy?.name ?? '' },
-          { label: sheetLabels['approved'], name: project.signoff.approvedBy?.name ?? '' },
-        ],
-        labels: { project: sheetLabels['project'], number: sheetLabels['number'], revision: sheetLabels['revision'], date: sheetLabels['date'], page: sheetLabels['sheet'] },
-      }),
-    footer: (page: number, pages: number) => ({
-      margin: [MARGIN_X, 12, MARGIN_X, 0],
-      columns: [
-        { text: t(sheetLabels['footer']), style: 'small', width: '*' },
-        { text: `${labels['document']} · ${pageText(sheetLabels['sheetOf'], page, pages)}`, style: 'small', alignment: 'right', width: 'auto' },
-      ],
-    }),
     content,
-  };
+  );
 }
