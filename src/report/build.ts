@@ -32,6 +32,7 @@ interface Sheet {
   bytes: Buffer;
   title: string;
   pages: number;
+  file: string;
 }
 
 /** Write the dossier of `project` into `outDir`; returns the paths written (OUT joined with each name). */
@@ -55,7 +56,7 @@ export async function buildDossier(
     const accept = async (i: number, bytes: Buffer): Promise<void> => {
       const cr = result.circuits[i];
       await staging.write(plan.sheets[i].file, bytes);
-      sheets[i] = { bytes, title: `${unmark(cr.id)} — ${unmark(cr.description)}`, pages: await pageCount(bytes) };
+      sheets[i] = { bytes, title: `${unmark(cr.id)} — ${unmark(cr.description)}`, pages: await pageCount(bytes), file: plan.sheets[i].file };
       opts.onProgress?.(++done, total, cr.id);
     };
     const children = opts.renderer ? 0 : childCount(total, opts.jobs);

@@ -2,11 +2,12 @@
 // with a PDF outline (bookmarks): the summary, then one entry per circuit. pdf-lib writes no clock
 // and no random id here; dates come from the project, the object layout is fixed.
 
-import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef } from 'pdf-lib';
+import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef, PDFString } from 'pdf-lib';
 
 export interface DossierPart {
   bytes: Uint8Array;
   title: string; // outline entry, plain text
+  file?: string; // the sheet's own file name: links to it from the summary become jumps inside the dossier
 }
 
 export interface DossierMeta {
@@ -38,6 +39,12 @@ export async function mergeDossier(summary: DossierPart, sheets: DossierPart[], 
     pages.forEach((p) => out.addPage(p));
     firstPages.push(pages[0].ref);
   }
+  const summaryPages = (await PDFDocument.load(summary.bytes, { updateMetadata: false })).getPageCount();
+  const targets = new Map<string, PDFRef>();
+  sheets.forEach((s, i) => {
+    if (s.file) targets.set(s.file, firstPages[i + 1]!);
+  });
+  linkWithinDossier(out, summaryPages, targets);
   writeOutline(out, [
     { title: meta.summaryTitle, page: firstPages[0], children: [] },
     ...(sheets.length
@@ -51,6 +58,29 @@ export async function mergeDossier(summary: DossierPart, sheets: DossierPart[], 
   out.setCreationDate(meta.date);
   out.setModificationDate(meta.date);
   return out.save({ useObjectStreams: false, addDefaultPage: false, updateFieldAppearances: false });
+}
+
+/**
+ * The summary links each circuit to its sheet's file (a URI action, PDF 32000-1:2008 12.6.4.7); inside
+ * the dossier the sheet is a page away, so each such link becomes a destination on that page (12.3.2).
+ */
+function linkWithinDossier(doc: PDFDocument, summaryPages: number, targets: Map<string, PDFRef>): void {
+  for (const page of doc.getPages().slice(0, summaryPages)) {
+    const annots = page.node.lookupMaybe(PDFName.of('Annots'), PDFArray);
+    if (!annots) continue;
+    for (let i = 0; i < annots.size(); i++) {
+      const annot = annots.lookupMaybe(i, PDFDict);
+      const action = annot?.lookupMaybe(PDFName.of('A'), PDFDict);
+      const uri = action?.lookupMaybe(PDFName.of('URI'), PDFString, PDFHexString);
+      const target = uri ? targets.get(uri.decodeText()) : undefined;
+      if (!annot || !target) continue;
+      const dest = PDFArray.withContext(doc.context);
+      dest.push(target);
+      dest.push(PDFName.of('Fit'));
+      annot.delete(PDFName.of('A'));
+      annot.set(PDFName.of('Dest'), dest);
+    }
+  }
 }
 
 /** Write /Outlines into the catalog (PDF 32000-1:2008, 12.3.3), every level open. */

@@ -1,6 +1,7 @@
 // The project summary as a pdfmake document definition: cover, the board tree with each board's
 // fault levels, the index of circuits (failing first) and every non-passing check in words.
 
+import { sheetFileName } from './plan.js';
 import { boardTreeDrawing } from './tree-drawing.js';
 import type { Column, Content, TDocumentDefinitions, TableCell } from 'pdfmake/interfaces.js';
 import type { Project, Supply } from '../model/types.js';
@@ -204,13 +205,14 @@ export function summaryDocument(project: Project, result: ProjectResult, opts: S
       const page = opts.dossierPages?.get(c.id);
       return [
         String(numberOf.get(c.id) ?? ''),
-        { text: unmark(c.id), bold: true, style: 'td' } as TableCell,
+        // a link to the sheet's own file; in the dossier it becomes a jump to the sheet's first page
+        { text: unmark(c.id), bold: true, style: 'td', link: sheetFileName(c.id), color: COLOURS.accent } as TableCell,
         { text: unmark(c.description), style: 'td' } as TableCell,
         { text: `${unmark(c.from)} → ${c.to ? unmark(c.to) : '—'}`, style: 'td' } as TableCell,
         { text: unmark(c.device), style: 'td' } as TableCell,
         { text: t(cable), style: 'td' } as TableCell,
         { stack: [statusCell(c.verdict, sheetLabels) as Content, ...(bad.length ? [{ text: bad.join(', '), style: 'small' }] : [])], style: 'td' } as TableCell,
-        { text: page != null ? String(page) : '', alignment: 'right', style: 'td' } as TableCell,
+        { text: page != null ? String(page) : '', alignment: 'right', style: 'td', link: sheetFileName(c.id) } as TableCell,
       ];
     }),
   );

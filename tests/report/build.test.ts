@@ -2,7 +2,7 @@
 import { mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync, mkdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef } from 'pdf-lib';
+import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef, PDFString } from 'pdf-lib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { OutputPlanError, TemplateError, buildDossier } from '../../src/report/build.js';
 import { defaultRenderer, type Renderer } from '../../src/report/render.js';
@@ -119,6 +119,38 @@ describe('build', () => {
       'MSB-Q7 — Yard lighting and gate supply',
     ]);
     expect((outlines.get(PDFName.of('Count')) as PDFNumber).asNumber()).toBe(6);
+  });
+});
+
+describe('links from the index of circuits', () => {
+  /** Every link annotation of a PDF's pages: the page it is on, and its URI or destination page. */
+  const links = async (file: string) => {
+    const doc = await PDFDocument.load(readFileSync(file));
+    const pageOf = new Map(doc.getPages().map((p, i) => [p.ref.toString(), i + 1]));
+    const found: Array<{ on: number; uri?: string; to?: number }> = [];
+    doc.getPages().forEach((page, i) => {
+      const annots = page.node.lookupMaybe(PDFName.of('Annots'), PDFArray);
+      for (let k = 0; k < (annots?.size() ?? 0); k++) {
+        const a = annots!.lookup(k, PDFDict);
+        const uri = a.lookupMaybe(PDFName.of('A'), PDFDict)?.lookupMaybe(PDFName.of('URI'), PDFString, PDFHexString);
+        const dest = a.lookupMaybe(PDFName.of('Dest'), PDFArray);
+        found.push({ on: i + 1, uri: uri?.decodeText(), to: dest ? pageOf.get(String(dest.get(0))) : undefined });
+      }
+    });
+    return found;
+  };
+  it('summary.pdf links each circuit to its own sheet file', async () => {
+    const uris = (await links(path.join(outA, 'summary.pdf'))).map((l) => l.uri);
+    for (const f of ['DB-1-C3.pdf', 'MSB-Q1.pdf', 'MSB-Q4.pdf', 'MSB-Q7.pdf']) expect(uris).toContain(f);
+  });
+  it('in the dossier each link jumps to the first page of its sheet instead', async () => {
+    const dossier = await links(path.join(outA, 'dossier.pdf'));
+    expect(dossier.length).toBeGreaterThan(0);
+    expect(dossier.every((l) => l.uri === undefined && l.to !== undefined)).toBe(true);
+    const summaryPages = pdfPages(path.join(outA, 'summary.pdf'));
+    const q4 = summaryPages + pdfPages(path.join(outA, 'DB-1-C3.pdf')) + pdfPages(path.join(outA, 'MSB-Q1.pdf')) + 1;
+    expect(dossier.map((l) => l.to)).toContain(q4);
+    expect(pdfText(path.join(outA, 'dossier.pdf'), { first: q4, last: q4 })).toContain('MSB-Q4 — Feeder to process MCC-1');
   });
 });
 
