@@ -295,6 +295,18 @@ export function solveTable(project: Project, result: ProjectResult): string {
       if (k.explanation) lines.push(`        ${k.explanation}`);
     }
   }
+  // The protective conductor's own check (IEC 60364-5-54 543.1.2) stands beside the four checks.
+  const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
+  const phaseStatus = (c: CircuitResult) => c.checks.find((k) => k.name === 'thermal_withstand')?.status ?? 'pass';
+  const peProblems = result.circuits.filter((c) => c.protectiveConductor && rank[c.protectiveConductor.status] > rank[phaseStatus(c)]);
+  if (peProblems.length > 0) {
+    lines.push('');
+    lines.push(`Protective conductors that fail or are undetermined (${peProblems.length}), beside the four checks`);
+    for (const c of peProblems) {
+      lines.push(`  ${STATUS_WORD[c.protectiveConductor!.status].padEnd(5)} ${c.id}  PE withstand`);
+      lines.push(`        ${c.protectiveConductor!.explanation}`);
+    }
+  }
 
   const circuits = [...result.circuits].sort(
     (a, b) => STATUS_ORDER[a.verdict] - STATUS_ORDER[b.verdict] || byText(a.id, b.id),

@@ -3,7 +3,7 @@
 
 import type { Conductor, Insulation } from '../model/types.js';
 import { IEC60949_CONSTANTS } from '../data/iec60949.js';
-import { insulationTemperatures } from '../data/insulation.js';
+import { insulationTemperatures, protectiveConductorTemperatures } from '../data/insulation.js';
 
 export interface KDerivation {
   k: number; // A s^0.5 / mm^2
@@ -30,6 +30,21 @@ export function conductorK(conductor: Conductor, insulation: Insulation, areaMm2
     finalC: t.finalC,
     reference: t.reference,
   };
+}
+
+/**
+ * k of a protective conductor, IEC 60364-5-54:2011 543.1.2 with Annex A: a core of the cable starts at the
+ * cable's operating temperature (Table A.54.3), a separate insulated conductor at 30 degC (Table A.54.2).
+ */
+export function protectiveConductorK(
+  conductor: Conductor,
+  arrangement: 'in-cable' | 'separate',
+  insulation: Insulation,
+  areaMm2: number,
+): KDerivation {
+  const { K, beta } = IEC60949_CONSTANTS[conductor];
+  const t = protectiveConductorTemperatures(arrangement, insulation, areaMm2);
+  return { k: kFactor(K, beta, t.initialC, t.finalC), K, beta, initialC: t.initialC, finalC: t.finalC, reference: t.reference };
 }
 
 /** Withstand energy k^2 S^2 with S the total area in mm^2 (one conductor times the parallel count). */

@@ -139,6 +139,25 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   q.push({ symbol: 'L_min', value: threshold, unit: 'm', formula: 'smallest length at which far-end faults pass the energy check', substitution: threshold === null ? 'none up to 10 km' : fmt.length(threshold), reference: REF.withstand });
   q.push({ symbol: 'L_max', value: maxLength, unit: 'm', formula: 'largest length at which I″k1min,end operates the device within the disconnection time', substitution: maxLength === null ? 'not limited by the device (definite time) or not determined' : fmt.length(maxLength), reference: REF.disconnection });
 
+  const peCheck = ev.protectiveConductor;
+  const peArea = `${cable.protectiveConductor.parallel > 1 ? `${cable.protectiveConductor.parallel} × ` : ''}${sig(cable.protectiveConductor.size.area * 1e6, 4)} mm²`;
+  q.push({
+    symbol: 'k PE',
+    value: peCheck.k.k,
+    unit: 'A·s^0.5/mm²',
+    formula: 'K·√(ln((θ_f + β)/(θ_i + β))) for the protective conductor',
+    substitution: `${peCheck.k.K} × √(ln((${peCheck.k.finalC} + ${peCheck.k.beta})/(${peCheck.k.initialC} + ${peCheck.k.beta}))), ${cable.protectiveConductor.arrangement}`,
+    reference: `IEC 60364-5-54:2011 543.1.2; ${peCheck.k.reference}`,
+  });
+  q.push({ symbol: 'k^2 S^2 PE', value: peCheck.withstand, unit: 'A^2 s', formula: 'k_PE²·(n·S_PE)²', substitution: `${sig(peCheck.k.k, 4)}² × (${peArea})²`, reference: 'IEC 60364-5-54:2011 543.1.2' });
+  const peExplanation =
+    peCheck.status === 'pass'
+      ? `The protective conductor (${peArea}, k = ${sig(peCheck.k.k, 4)}) withstands ${fmt.energy(peCheck.withstand)}, not less than the largest let-through energy ${fmt.energy(e.letThrough ?? 0)}.`
+      : peCheck.status === 'fail'
+        ? `The protective conductor (${peArea}, k = ${sig(peCheck.k.k, 4)}) withstands only ${fmt.energy(peCheck.withstand)}, less than the largest let-through energy over the range of the phase check, ${fmt.energy(e.letThrough ?? 0)}, which bounds the earth-fault energy on the safe side (IEC 60364-5-54 543.1.2): enlarge it to at least ${sig(Math.sqrt(e.letThrough ?? 0) / peCheck.k.k / cable.protectiveConductor.parallel, 3)} mm² per conductor. This check stands beside the four checks of the verdict.`
+        : 'The protective conductor check is not determined: the let-through energy is not known over the whole range.';
+  const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
+  if (rank[peCheck.status] > rank[e.status]) notes.push(peExplanation); // worse than the phase check: say so
   const checks = checkResults(c, ev, circuit, threshold, maxLength, alt.smallestCompliantSize);
   const defaults: AppliedDefault[] = [...board.defaults, ...circuit.defaults, ...device.defaults.map((d) => ({ ...d, field: `device ${device.id}: ${d.field}` }))];
   const result: Omit<CircuitResult, 'charts'> = {
@@ -158,6 +177,7 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
     voltageDrop: ev.voltageDrop?.total ?? null,
     verdict: ev.verdict,
     checks,
+    protectiveConductor: { k: peCheck.k.k, withstand: peCheck.withstand, status: peCheck.status, explanation: peExplanation, reference: 'IEC 60364-5-54:2011 543.1.2' },
     energy: { status: e.status, governingCurrent: e.governingCurrent, letThrough: e.letThrough, rule: e.rule, currentMin: e.currentMin, currentMax: e.currentMax },
     alternatives: alt.alternatives,
     smallestCompliantSize: alt.smallestCompliantSize,

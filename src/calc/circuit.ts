@@ -4,7 +4,7 @@
 import type { Cable, Load, Settings } from '../model/types.js';
 import { insulationTemperatures } from '../data/insulation.js';
 import type { CheckName, Status } from './types.js';
-import { type KDerivation, conductorK, withstandEnergy } from './adiabatic.js';
+import { type KDerivation, conductorK, protectiveConductorK, withstandEnergy } from './adiabatic.js';
 import { type DeviceInCircuit, type OperatingPoint, operatingPoint } from './device.js';
 import { type FaultPoint, type SourceAtBoard, areaMm2, faultAt } from './fault-point.js';
 import { resistanceAt } from './impedance.js';
@@ -36,7 +36,15 @@ export interface VoltageDropOutcome {
   resistanceTemperature: number; // degC
 }
 
+/** The protective conductor's own adiabatic check, IEC 60364-5-54:2011 543.1.2, beside the four checks. */
+export interface ProtectiveConductorOutcome {
+  k: KDerivation;
+  withstand: number; // k^2 S^2 of the PE conductors together, A^2 s
+  status: Status;
+}
+
 export interface CircuitEvaluation {
+  protectiveConductor: ProtectiveConductorOutcome;
   origin: FaultPoint;
   end: FaultPoint;
   k: KDerivation;
@@ -116,6 +124,17 @@ export function evaluateCircuit(c: CircuitCase): CircuitEvaluation {
   const hi = anyPoint ? origin.ik3max : Math.max(end.ik1min, end.ik3max);
   const energy = energyOverRange(c.device, lo, hi, kappaAnchors(bounds), withstand);
 
+  // The PE carries the earth-fault currents, which lie inside the range the phase check considers: the
+  // largest let-through found there bounds the PE's energy too (on the safe side).
+  const pe = cable.protectiveConductor;
+  const peK = protectiveConductorK(pe.conductor, pe.arrangement, cable.insulation, pe.size.area * 1e6);
+  const peWithstand = withstandEnergy(peK.k, pe.size.area * 1e6 * pe.parallel);
+  const protectiveConductor: ProtectiveConductorOutcome = {
+    k: peK,
+    withstand: peWithstand,
+    status: energy.letThrough !== null && energy.letThrough > peWithstand ? 'fail' : energy.status === 'undetermined' ? 'undetermined' : 'pass',
+  };
+
   const capacity = c.device.device.breakingCapacity;
   const breaking = {
     status: (capacity === undefined ? 'undetermined' : origin.ik3max <= capacity ? 'pass' : 'fail') as Status,
@@ -147,5 +166,5 @@ export function evaluateCircuit(c: CircuitCase): CircuitEvaluation {
   const failing = statuses.filter(([, s]) => s === 'fail').map(([n]) => n);
   const undetermined = statuses.filter(([, s]) => s === 'undetermined').map(([n]) => n);
   const verdict: Status = failing.length > 0 ? 'fail' : undetermined.length > 0 ? 'undetermined' : 'pass';
-  return { origin, end, k, totalAreaMm2, withstand, energy, breaking, disconnection, voltageDrop, verdict, failing, undetermined };
+  return { protectiveConductor, origin, end, k, totalAreaMm2, withstand, energy, breaking, disconnection, voltageDrop, verdict, failing, undetermined };
 }

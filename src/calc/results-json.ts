@@ -48,6 +48,9 @@ export function resultsDocument(project: Project, result: ProjectResult) {
       voltage_drop_pct: c.voltageDrop,
       verdict: c.verdict,
       checks: c.checks.map((k) => ({ name: k.name, status: k.status, value: k.value, limit: k.limit })),
+      protective_conductor: c.protectiveConductor
+        ? { k: c.protectiveConductor.k, withstand_a2s: c.protectiveConductor.withstand, status: c.protectiveConductor.status }
+        : null,
       smallest_compliant_size: c.smallestCompliantSize,
       alternatives: c.alternatives.map((a) => ({
         size: a.size,

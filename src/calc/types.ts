@@ -108,6 +108,8 @@ export interface CircuitResult {
   voltageDrop: number | null; // percent at the far end, accumulated; null without load
   verdict: Status;
   checks: CheckResult[];
+  /** The protective conductor's adiabatic check (IEC 60364-5-54 543.1.2), reported beside the four checks. */
+  protectiveConductor?: { k: number; withstand: number; status: Status; explanation: string; reference: string };
   energy: EnergyEvaluation;
   alternatives: Alternative[];
   smallestCompliantSize: string | null;

@@ -354,7 +354,7 @@ type Group = 'fault' | 'energy' | 'time' | 'length';
 /** Which section shows a traced quantity, by its unit (the solver's symbols may vary). */
 export function quantityGroup(q: Traced): Group {
   const u = q.unit.replace(/\s+/g, ' ').trim();
-  if (q.symbol === 'k' || /^k\^?2/.test(q.symbol) || u === 'A^2 s' || u === 'A2s' || /^(K|beta|theta)/.test(q.symbol)) return 'energy';
+  if (q.symbol === 'k' || /^k[ _]PE/.test(q.symbol) || /^k\^?2/.test(q.symbol) || u === 'A^2 s' || u === 'A2s' || /^(K|beta|theta)/.test(q.symbol)) return 'energy';
   if (u === 's') return 'time';
   if (u === 'm' || u === '%') return 'length';
   return 'fault';

@@ -117,3 +117,29 @@ describe('purity', () => {
     expect(JSON.stringify(resultsDocument(p, solveProject(p)))).toBe(JSON.stringify(resultsDocument(p, solveProject(p))));
   });
 });
+
+describe('protective conductor withstand, IEC 60364-5-54:2011 543.1.2 (beside the four checks)', () => {
+  const solveWith = (pe: Partial<import('../../src/model/types.js').ProtectiveConductor> | null) => {
+    const base = cable({ mm2: 95, length: 30 });
+    const c = pe ? { ...base, protectiveConductor: { ...base.protectiveConductor, ...pe }, protectiveConductorDefaulted: false } : base;
+    return solveProject(project({ devices: [device({ clearingTime: 0.2 })], circuits: [circuit({ cable: c })] })).circuits[0]!;
+  };
+  it('a default PE (a core of the phase size) has the phase k and withstand', () => {
+    const r = solveWith(null);
+    expect(r.protectiveConductor!.k).toBeCloseTo(r.k, 9);
+    expect(r.protectiveConductor!.withstand).toBeCloseTo(r.withstand, 3);
+    expect(r.protectiveConductor!.status).toBe(r.checks[0]!.status);
+  });
+  it('a separate insulated PE starts at 30 degC: k = 176 for XLPE copper (Table A.54.2)', () => {
+    const r = solveWith({ arrangement: 'separate' });
+    expect(r.protectiveConductor!.k).toBeCloseTo(176, 0);
+  });
+  it('a PE too small for the let-through energy fails and says so, the verdict of the four checks unchanged', () => {
+    // 16 mm2 core, k = 143: k^2 S^2 = 5.2e6 A^2 s, against about (16 kA)^2 x 0.2 s at the origin
+    const r = solveWith({ size: { label: '16 mm2', system: 'metric', area: 16e-6 }, resistance20: 1.15e-3 });
+    expect(r.protectiveConductor!.withstand).toBeCloseTo((143.08 * 16) ** 2, -4);
+    expect(r.protectiveConductor!.status).toBe('fail');
+    expect(r.checks[0]!.status).toBe('pass');
+    expect(r.notes.join(' ')).toContain('protective conductor');
+  });
+});
