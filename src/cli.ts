@@ -129,7 +129,8 @@ Run 'faultsheet <command> --help' for a command's options.`,
       const target = path.resolve(io.cwd, dir);
       const written = await initProject(target);
       out(`created ${display(io, target)}: ${written.join(', ')}\n`);
-      out(`next: faultsheet check ${display(io, target)}\n`);
+      const shown = display(io, target);
+      out(`next: edit the YAML files there, then \`npx faultsheet check ${shown}\` and \`npx faultsheet build ${shown}\` (the sheets go to ${shown}/out)\n`);
     },
   );
 
