@@ -3,7 +3,6 @@
 
 import type { Project } from '../model/types.js';
 import type { BoardResult, CircuitResult, ProjectResult } from './types.js';
-import { magnitude } from './impedance.js';
 import { lineToEarthCurrent, peakCurrent, peakFactor, threePhaseCurrent } from './fault-current.js';
 import { propagate } from './network.js';
 import { circuitResult } from './circuit-result.js';

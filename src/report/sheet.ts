@@ -10,9 +10,6 @@ import { literal, unmark, type Run } from './typeset.js';
 import type { TemplateSet } from './templates.js';
 import {
   CONTENT_WIDTH,
-  FONT,
-  MARGIN_X,
-  TOP_MARGIN,
   COLOURS,
   blocksToContent,
   breakable,
