@@ -3,9 +3,8 @@
 import type { ChartSeries } from './types.js';
 import { operatingPoint, responseBreakpoints } from './device.js';
 import { type CircuitCase, type CircuitEvaluation, farEndEnergy } from './circuit.js';
-import { faultAt } from './fault-point.js';
+import { faultAt, kappaAlongCable } from './fault-point.js';
 import { withstandTime } from './adiabatic.js';
-import { kappaAnchors, kappaAt } from './withstand-check.js';
 import { LENGTH_SEARCH_LIMIT } from './length-search.js';
 
 const CURRENT_SAMPLES = 120;
@@ -31,12 +30,12 @@ export function chartSeries(
   for (let i = 0; i <= CURRENT_SAMPLES; i++) currents.add(lo * (hi / lo) ** (i / CURRENT_SAMPLES));
   for (const b of breakpoints) if (b >= lo && b <= hi) currents.add(b);
   const sorted = [...currents].sort((a, b) => a - b);
-  const anchors = kappaAnchors([ev.origin, ev.end]);
+  const kappaOf = kappaAlongCable(c.settings, c.source, c.cable, c.cable.length);
   const energy: ChartSeries['energy'] = [];
   const time: ChartSeries['time'] = [];
   const withstand: ChartSeries['withstandTime'] = [];
   for (const current of sorted) {
-    const kappa = kappaAt(anchors, current);
+    const kappa = kappaOf(current);
     const op = operatingPoint(c.device, current, kappa);
     energy.push({ current, energy: op.energy });
     time.push({ current, time: op.time });

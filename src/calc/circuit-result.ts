@@ -113,7 +113,7 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
     value: e.letThrough,
     unit: 'A^2 s',
     formula: e.rule === 'let-through curve' ? "maker's let-through curve, log-log interpolation" : 'I²·t·(1 + m) for t < 0.1 s, else I²·t',
-    substitution: e.governingCurrent === null ? 'not determined over the whole range' : `largest over ${fmt.current(e.currentMin)} … ${fmt.current(e.currentMax)}: at ${fmt.current(e.governingCurrent)} (${e.rule})`,
+    substitution: e.governingCurrent === null ? (e.largestFound ? `not determined over the whole range; largest where determined ${fmt.energy(e.largestFound.energy)} at ${fmt.current(e.largestFound.current)}` : 'not determined over the whole range') : `largest over ${fmt.current(e.currentMin)} … ${fmt.current(e.currentMax)}: at ${fmt.current(e.governingCurrent)} (${e.rule})`,
     reference: REF.withstand,
   });
   const dp = ev.disconnection.point;
@@ -152,9 +152,9 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   q.push({ symbol: 'k^2 S^2 PE', value: peCheck.withstand, unit: 'A^2 s', formula: 'k_PE²·(n·S_PE)²', substitution: `${sig(peCheck.k.k, 4)}² × (${peArea})²`, reference: 'IEC 60364-5-54:2011 543.1.2' });
   const peExplanation =
     peCheck.status === 'pass'
-      ? `The protective conductor (${peArea}, k = ${sig(peCheck.k.k, 4)}) withstands ${fmt.energy(peCheck.withstand)}, not less than the largest let-through energy ${fmt.energy(e.letThrough ?? 0)}.`
+      ? `The protective conductor (${peArea}, k = ${sig(peCheck.k.k, 4)}) withstands ${fmt.energy(peCheck.withstand)}, not less than the largest let-through energy ${fmt.energy(e.largestFound?.energy ?? 0)}.`
       : peCheck.status === 'fail'
-        ? `The protective conductor (${peArea}, k = ${sig(peCheck.k.k, 4)}) withstands only ${fmt.energy(peCheck.withstand)}, less than the largest let-through energy over the range of the phase check, ${fmt.energy(e.letThrough ?? 0)}, which bounds the earth-fault energy on the safe side (IEC 60364-5-54 543.1.2): enlarge it to at least ${sig(Math.sqrt(e.letThrough ?? 0) / peCheck.k.k / cable.protectiveConductor.parallel, 3)} mm² per conductor. This check stands beside the four checks of the verdict.`
+        ? `The protective conductor (${peArea}, k = ${sig(peCheck.k.k, 4)}) withstands only ${fmt.energy(peCheck.withstand)}, less than the largest let-through energy over the range of the phase check, ${fmt.energy(e.largestFound?.energy ?? 0)}, which bounds the earth-fault energy on the safe side (IEC 60364-5-54 543.1.2): enlarge it to at least ${sig(Math.sqrt(e.largestFound?.energy ?? 0) / peCheck.k.k / cable.protectiveConductor.parallel, 3)} mm² per conductor. This check stands beside the four checks of the verdict.`
         : 'The protective conductor check is not determined: the let-through energy is not known over the whole range.';
   const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
   if (rank[peCheck.status] > rank[e.status]) notes.push(peExplanation); // worse than the phase check: say so
@@ -226,7 +226,9 @@ function checkResults(
       );
     } else if (threshold === null) fixes.push('no length up to 10 km makes far-end faults pass');
     fixes.push(`a current-limiting device whose let-through energy stays below ${fmt.energy(ev.withstand)} over ${fmt.current(e.currentMin)} to ${fmt.current(e.currentMax)} resolves it`);
-    thermalText = `Let-through energy ${fmt.energy(e.letThrough ?? 0)} at ${where(e.governingCurrent)} (${e.rule}) exceeds k²S² = ${fmt.energy(ev.withstand)}. To fix: ${fixes.join('; ')}.`;
+    const worst = e.largestFound!;
+    const partly = e.letThrough === null ? ' (the device data leave part of the range undetermined, so the largest energy there is not known)' : '';
+    thermalText = `Let-through energy ${fmt.energy(worst.energy)} at ${where(worst.current)} (${e.rule}) exceeds k²S² = ${fmt.energy(ev.withstand)}${partly}. To fix: ${fixes.join('; ')}.`;
   } else if (e.status === 'undetermined') {
     thermalText = `The device data do not cover every current in ${range}; no curve is extrapolated, so the check is not determined. Extend the maker's curves or give a definite clearing time.`;
   }
@@ -236,7 +238,7 @@ function checkResults(
       status: e.status,
       value: e.letThrough,
       limit: ev.withstand,
-      governing: where(e.governingCurrent),
+      governing: where(e.governingCurrent ?? e.largestFound?.current ?? null),
       explanation: thermalText,
       reference: REF.withstand,
     },

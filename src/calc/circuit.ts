@@ -6,9 +6,9 @@ import { insulationTemperatures } from '../data/insulation.js';
 import type { CheckName, Status } from './types.js';
 import { type KDerivation, conductorK, protectiveConductorK, withstandEnergy } from './adiabatic.js';
 import { type DeviceInCircuit, type OperatingPoint, operatingPoint } from './device.js';
-import { type FaultPoint, type SourceAtBoard, areaMm2, faultAt } from './fault-point.js';
+import { type FaultPoint, type SourceAtBoard, areaMm2, faultAt, kappaAlongCable } from './fault-point.js';
 import { resistanceAt } from './impedance.js';
-import { type EnergyCheck, energyOverRange, kappaAnchors } from './withstand-check.js';
+import { type EnergyCheck, energyOverRange } from './withstand-check.js';
 
 export interface CircuitCase {
   settings: Settings;
@@ -77,7 +77,7 @@ export function farEndEnergy(c: CircuitCase, length: number, withstand: number):
   const end = faultAt(c.settings, c.source, c.cable, length);
   const lo = Math.min(end.ik1min, end.ik3max);
   const hi = Math.max(end.ik1min, end.ik3max);
-  return energyOverRange(c.device, lo, hi, kappaAnchors([end]), withstand);
+  return energyOverRange(c.device, lo, hi, () => end.kappa3, withstand); // every fault at the far end
 }
 
 /** Device response to the smallest fault (line-PE) at the far end of a cable of `length`. */
@@ -119,10 +119,10 @@ export function evaluateCircuit(c: CircuitCase): CircuitEvaluation {
   const withstand = withstandEnergy(k.k, totalAreaMm2);
 
   const anyPoint = settings.withstandCriterion === 'any-point';
-  const bounds = anyPoint ? [origin, end] : [end];
+  const kappaOf = anyPoint ? kappaAlongCable(settings, c.source, cable, cable.length) : () => end.kappa3;
   const lo = Math.min(end.ik1min, end.ik3max);
   const hi = anyPoint ? origin.ik3max : Math.max(end.ik1min, end.ik3max);
-  const energy = energyOverRange(c.device, lo, hi, kappaAnchors(bounds), withstand);
+  const energy = energyOverRange(c.device, lo, hi, kappaOf, withstand);
 
   // The PE carries the earth-fault currents, which lie inside the range the phase check considers: the
   // largest let-through found there bounds the PE's energy too (on the safe side).
@@ -132,7 +132,7 @@ export function evaluateCircuit(c: CircuitCase): CircuitEvaluation {
   const protectiveConductor: ProtectiveConductorOutcome = {
     k: peK,
     withstand: peWithstand,
-    status: energy.letThrough !== null && energy.letThrough > peWithstand ? 'fail' : energy.status === 'undetermined' ? 'undetermined' : 'pass',
+    status: energy.largestFound !== null && energy.largestFound.energy > peWithstand ? 'fail' : energy.status === 'undetermined' ? 'undetermined' : 'pass',
   };
 
   const capacity = c.device.device.breakingCapacity;

@@ -67,3 +67,31 @@ export function faultAt(settings: Settings, source: SourceAtBoard, cable: Cable,
     kappa1: peakFactor(zLoop),
   };
 }
+
+/**
+ * kappa of the fault that gives a prospective current on this cable, for the DC-component factor m: the
+ * peak factor of the three-phase impedance at the fault location (IEC 60909-0:2016 8.1: the peak current of
+ * an unbalanced fault may use kappa of the three-phase fault at the same place). A current between
+ * I''k3max at the origin and at the far end locates its fault along the cable; a larger one is the
+ * origin's, a smaller one (reached by earth faults only) the far end's.
+ */
+export function kappaAlongCable(settings: Settings, source: SourceAtBoard, cable: Cable, length: number): (current: number) => number {
+  const rs = source.zMax.r;
+  const xs = source.zMax.x;
+  const r1 = cable.resistance20 / cable.parallel;
+  const x1 = cable.reactance / cable.parallel;
+  const a = r1 * r1 + x1 * x1;
+  const b = 2 * (rs * r1 + xs * x1);
+  const cu = (settings.voltageFactorMax * settings.systemVoltage) / Math.sqrt(3);
+  return (current: number) => {
+    const z = cu / current; // |Z_k| that gives this current
+    let l = 0;
+    if (a > 0) {
+      const c = rs * rs + xs * xs - z * z;
+      const disc = b * b - 4 * a * c;
+      l = disc > 0 ? (-b + Math.sqrt(disc)) / (2 * a) : 0;
+    }
+    l = Math.min(Math.max(l, 0), length);
+    return peakFactor({ r: rs + l * r1, x: xs + l * x1 });
+  };
+}

@@ -39,23 +39,24 @@ export function thresholdLength(c: CircuitCase, withstand: number): number | nul
 
 /**
  * Largest length at which I''k1min at the far end operates the device within the disconnection time.
- * 0 if even zero length fails; null where the time does not depend on current (definite clearing time
- * alone), where it cannot be determined at the origin, or where the earth-fault loop is not modelled.
+ * 0 if even zero length fails and no length passes; null where the time does not depend on current
+ * (definite clearing time alone), where the earth-fault loop is not modelled, or where no length is
+ * either passed or failed (the device data never cover the far-end current).
  */
 export function maxProtectedLength(c: CircuitCase): number | null {
   if (isDefiniteTimeOnly(c.device.device) || !earthFaultLoopModelled(c.settings)) return null;
   const at = (length: number) => farEndDisconnection(c, length).status;
-  const first = at(0);
-  if (first === 'undetermined') return null;
-  if (first === 'fail') return 0;
   const ok = (length: number) => at(length) === 'pass';
-  let last = 0; // the largest grid length that passes: search from the top down
-  for (let i = GRID.length - 1; i > 0; i--) {
+  // The largest grid length that passes, searched from the top down. At zero length the device may be
+  // undetermined (a curve that stops below the largest fault) and still operate in time further out.
+  let last = -1;
+  for (let i = GRID.length - 1; i >= 0; i--) {
     if (ok(GRID[i]!)) {
       last = i;
       break;
     }
   }
+  if (last < 0) return at(0) === 'fail' || GRID.some((l) => at(l) === 'fail') ? 0 : null;
   if (last === GRID.length - 1) return LENGTH_SEARCH_LIMIT;
   return bisect(GRID[last]!, GRID[last + 1]!, ok, true);
 }

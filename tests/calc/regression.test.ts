@@ -1,0 +1,82 @@
+// Regressions found by checking the solver against an independent implementation of FORMAT.md section 2.
+import { describe, expect, it } from 'vitest';
+import { solveProject } from '../../src/calc/solve.js';
+import { dcHeatFactor, peakFactor } from '../../src/calc/fault-current.js';
+import { cable, circuit, device, project, serviceSupply, settings } from './builders.js';
+
+const pts = (xs: Array<[number, number]>) => xs.map(([current, value]) => ({ current, value }));
+
+describe('maximum protected length where the device data stop below the largest fault', () => {
+  // A fuse described by its time-current curve alone (70 A to 1200 A): at zero length the far-end fault
+  // (about 10 kA) is above the curve, so the time there is undetermined; further out it operates in time.
+  const fuse = device({ kind: 'fuse', rating: 32, tripCurve: pts([[70, 100], [120, 10], [250, 1], [1200, 0.01]]) });
+  const solveAt = (length: number) =>
+    solveProject(
+      project({
+        supplies: [serviceSupply(16_000, 2, 0.05)],
+        devices: [fuse],
+        circuits: [circuit({ cable: { ...cable({ mm2: 10, length }), insulation: 'PVC' }, checks: { disconnectionTime: 5, voltageDropLimit: 5 } })],
+      }),
+    ).circuits[0]!;
+  it('is the length where I"k1min falls to the 5 s current, not null', () => {
+    const at = solveAt(30);
+    expect(at.maxLength).not.toBeNull();
+    expect(at.maxLength!).toBeGreaterThan(30);
+    const disc = (l: number) => solveAt(l).checks.find((c) => c.name === 'disconnection')!.status;
+    expect(disc(at.maxLength! - 1)).toBe('pass');
+    expect(disc(at.maxLength! + 1)).toBe('fail');
+  });
+});
+
+describe('kappa in the DC-component factor m', () => {
+  // An MCB clearing in 10 ms above 100 A: the energy at every current carries (1 + m) with kappa of the
+  // three-phase impedance at the fault location (IEC 60909-0:2016 8.1), also for the earth-fault current.
+  const mcb = device({ kind: 'mcb', rating: 10, breakingCapacity: 50_000, instantaneous: { pickup: 100, clearingTime: 0.01 } });
+  const solveWith = (criterion: 'any-point' | 'through-fault') =>
+    solveProject(
+      project({
+        settings: settings({ withstandCriterion: criterion }),
+        supplies: [serviceSupply(20_000, 8, 0.05)],
+        devices: [mcb],
+        circuits: [circuit({ cable: cable({ mm2: 95, length: 5 }) })],
+      }),
+    ).circuits[0]!;
+  it('through-fault: the far end\'s three-phase kappa also for the far-end earth-fault current', () => {
+    // A steep curve (t falls as I^-3 between 3 kA and 30 kA) makes the smallest far-end current govern.
+    const steep = device({ kind: 'fuse', rating: 100, tripCurve: pts([[3000, 0.09], [30_000, 0.00009]]) });
+    const c = solveProject(
+      project({
+        settings: settings({ withstandCriterion: 'through-fault' }),
+        supplies: [serviceSupply(20_000, 8, 0.05)],
+        devices: [steep],
+        circuits: [circuit({ cable: cable({ mm2: 95, length: 5 }) })],
+      }),
+    ).circuits[0]!;
+    const i = c.end.ik1min;
+    expect(c.energy.governingCurrent).toBeCloseTo(i, 6);
+    const t = 0.09 * (i / 3000) ** -3;
+    expect(c.letThrough!).toBeCloseTo(i ** 2 * t * (1 + dcHeatFactor(c.end.kappa, 50, t)), -1);
+  });
+  it('any-point: the origin current with the origin\'s kappa', () => {
+    const c = solveWith('any-point');
+    const zs = (1.05 * 400) / (Math.sqrt(3) * 20_000);
+    const kappaOrigin = peakFactor({ r: zs / Math.sqrt(65), x: (8 * zs) / Math.sqrt(65) });
+    expect(c.origin.kappa).toBeCloseTo(kappaOrigin, 9);
+    expect(c.letThrough!).toBeCloseTo(20_000 ** 2 * 0.01 * (1 + dcHeatFactor(kappaOrigin, 50, 0.01)), -2);
+  });
+});
+
+describe('let-through value where part of the range has no rule', () => {
+  // Trip curve to 1000 A, instantaneous from 1250 A, nothing between: the largest energy over the range
+  // is unknown, so let_through is null (FORMAT.md section 3), while a current that does exceed k^2 S^2
+  // still makes the check fail.
+  const gap = device({ rating: 100, tripCurve: pts([[130, 3000], [400, 60], [1000, 8]]), instantaneous: { pickup: 1250, clearingTime: 0.01 } });
+  const c = solveProject(
+    project({ devices: [gap], circuits: [circuit({ cable: { ...cable({ mm2: 2.5, length: 60 }), insulation: 'PVC' } })] }),
+  ).circuits[0]!;
+  it('is null, and the check fails on the currents that are determined', () => {
+    expect(c.letThrough).toBeNull();
+    expect(c.checks[0]!.status).toBe('fail');
+    expect(c.checks[0]!.explanation).toContain('exceeds');
+  });
+});
