@@ -25,7 +25,7 @@ import {
   supplySchema,
 } from './schema.js';
 import { parseYamlFile, sourcePos, type PathSegment, type SourceFile } from './source.js';
-import { checkProjectRefs, refAt, type CircuitRefs, type DeviceRefs, type ProjectRefs, type SupplyRefs } from './topology.js';
+import { checkProjectRefs, refAt, type CircuitRefs, type DeviceRefs, type ProjectRefs, type SupplyRefs, type UnreadParts } from './topology.js';
 import type { AppliedDefault, Circuit, Device, Project, ProjectMeta, Settings, Signoff, Supply } from './types.js';
 import { describeValue, locationOf, validatePart } from './validate.js';
 
@@ -222,11 +222,25 @@ export function buildProject(folder: ProjectFolder): LoadOutcome {
 
   const deviceEntries: ParsedDeviceEntry[] = [];
   const pending: PendingCircuit[] = [];
+  // A file that does not parse, or whose top level has the wrong shape, leaves its part of the project
+  // unknown: the cross-file checks that depend on that part are skipped rather than reported falsely.
+  const parsedPaths = new Set(sources.map((s) => s.path));
+  const unread: UnreadParts = {
+    supplies: !parsedPaths.has('project.yaml') || refs.supplies.length === 0,
+    devices: folder.files.some((f) => f.path.startsWith('devices/') && !parsedPaths.has(f.path)),
+    circuits: folder.files.some((f) => f.path.startsWith('circuits/') && !parsedPaths.has(f.path)),
+  };
   for (const source of sources) {
-    if (source.path.startsWith('devices/')) loadDevicesFile(source, refs, deviceEntries, issues);
-    else if (source.path.startsWith('circuits/')) collectCircuits(source, refs, pending, issues);
+    const before = issues.length;
+    if (source.path.startsWith('devices/')) {
+      loadDevicesFile(source, refs, deviceEntries, issues);
+      if (issues.slice(before).some((i) => i.severity === 'error' && i.path === '')) unread.devices = true;
+    } else if (source.path.startsWith('circuits/')) {
+      collectCircuits(source, refs, pending, issues);
+      if (issues.slice(before).some((i) => i.severity === 'error' && i.path === '')) unread.circuits = true;
+    }
   }
-  checkProjectRefs(refs, issues);
+  checkProjectRefs(refs, issues, unread);
 
   const devicesById = new Map<string, Device>();
   for (const { device } of deviceEntries) if (!devicesById.has(device.id)) devicesById.set(device.id, device);

@@ -58,7 +58,17 @@ interface Feeder {
   from?: string; // a circuit's `from` board
 }
 
-export function checkProjectRefs(refs: ProjectRefs, issues: Issue[]): void {
+/**
+ * What could not be read whole: a reference into such a part cannot be judged, and reporting it would bury
+ * the one real problem under follow-on errors.
+ */
+export interface UnreadParts {
+  supplies: boolean; // project.yaml missing, unparsable, or its supplies unreadable
+  devices: boolean; // a devices file unparsable or of the wrong shape
+  circuits: boolean; // a circuits file unparsable or of the wrong shape
+}
+
+export function checkProjectRefs(refs: ProjectRefs, issues: Issue[], unread: UnreadParts = { supplies: false, devices: false, circuits: false }): void {
   checkDuplicates(
     refs.devices.flatMap((d) => (d.id ? [{ kind: 'device', ref: d.id }] : [])),
     issues,
@@ -73,6 +83,7 @@ export function checkProjectRefs(refs: ProjectRefs, issues: Issue[]): void {
 
   const deviceIds = [...new Set(refs.devices.flatMap((d) => (d.id ? [d.id.value] : [])))].sort(compare);
   for (const circuit of refs.circuits) {
+    if (unread.devices) break;
     if (circuit.device && !deviceIds.includes(circuit.device.value)) {
       issues.push(
         problem('unknown-device', locationOf(circuit.device.file, circuit.device.path), {
@@ -113,6 +124,10 @@ export function checkProjectRefs(refs: ProjectRefs, issues: Issue[]): void {
     }
   }
 
+  if (unread.supplies || unread.circuits) {
+    checkTree(refs.circuits, feeders, boards, issues, false);
+    return;
+  }
   for (const circuit of refs.circuits) {
     if (circuit.from && !feeders.has(circuit.from.value)) {
       issues.push(
@@ -154,7 +169,7 @@ interface Edge {
 }
 
 /** Loops (Tarjan's strongly connected components) and boards that no supply reaches. */
-function checkTree(circuits: CircuitRefs[], feeders: Map<string, Feeder[]>, boards: string[], issues: Issue[]): void {
+function checkTree(circuits: CircuitRefs[], feeders: Map<string, Feeder[]>, boards: string[], issues: Issue[], reachability = true): void {
   const edges: Edge[] = [];
   for (const c of circuits) {
     if (c.from && c.to) edges.push({ circuit: c.id?.value ?? '?', from: c.from.value, to: c.to.value, ref: c.to });
@@ -188,6 +203,7 @@ function checkTree(circuits: CircuitRefs[], feeders: Map<string, Feeder[]>, boar
     );
   }
 
+  if (!reachability) return; // a supply or circuit file was not read: which boards are fed is not known
   // Reachability from the boards the supplies feed.
   const reached = new Set<string>();
   const queue = boards.filter((b) => feeders.get(b)!.some((f) => f.kind === 'supply'));

@@ -242,7 +242,8 @@ supplies:
   it('required sections and fields are reported missing at their parent', () => {
     const found = issues({ 'project.yaml': 'project: { name: X, number: "1", revision: A }\nsupplies: []\n' });
     expect(summary(found)).toEqual([
-      'circuits/c1.yaml:2:7 from unknown-board', // with no supply, MSB is fed by nothing
+      // no "unknown board" for c1.yaml: with the supplies unread, which boards are fed is not known,
+      // and a follow-on error would bury the real one
       'project.yaml:1:1 project.date missing-field',
       'project.yaml:1:1 settings missing-field',
       'project.yaml:2:11 supplies no-supplies',
@@ -271,10 +272,16 @@ describe('devices', () => {
     expect(summary(outcome.warnings)).toEqual(['devices/d.yaml:6:30 devices[0].instantaneous.pickup inconsistent-values']);
   });
 
+  it('a file that does not parse brings no follow-on errors from the files that refer to it', () => {
+    const found = issues({ 'devices/d.yaml': `devices:\n  - id: D1\n    kind: [mcb\n` });
+    expect(found.every((i) => i.file === 'devices/d.yaml')).toBe(true); // no "device D1 is not defined" in c1.yaml
+    expect(found.map((i) => i.code)).toContain('yaml-syntax');
+  });
+
   it('a devices file needs its list under `devices:`', () => {
     const found = issues({ 'devices/d.yaml': `- id: D1\n`, 'devices/e.yaml': `device:\n  - id: D1\n` });
     expect(summary(found)).toEqual([
-      'circuits/c1.yaml:3:9 device unknown-device',
+      // no "unknown device" for c1.yaml: d.yaml could not be read, so D1 may well be defined there
       'devices/d.yaml:1:1  not-a-mapping',
       'devices/e.yaml:1:1 device unknown-field',
       'devices/e.yaml:1:1 devices missing-field',
