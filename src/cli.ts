@@ -59,6 +59,7 @@ export async function main(io: CliIo): Promise<number> {
     .addHelpCommand(false)
     .exitOverride()
     .showSuggestionAfterError(true)
+    .showHelpAfterError("(run 'faultsheet --help' for the commands)")
     .configureOutput({ writeOut: out, writeErr: err, outputError: (text, write) => write(text) })
     .addHelpText(
       'after',
@@ -225,9 +226,17 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
     `${plural(result.circuits.length, 'sheet')} written`,
     `${plural(failed, 'check')} failed`,
     ...(undetermined > 0 ? [`${undetermined} undetermined`] : []),
+    ...(protectiveConductorProblems(result).length > 0 ? [`${plural(protectiveConductorProblems(result).length, 'protective conductor')} not passing`] : []),
   ];
   const line = `${parts.join(', ')} in ${seconds.toFixed(1)} s: ${display(io, path.join(outDir, 'dossier.pdf'))}`;
   return { result, line };
+}
+
+/** Circuits whose protective-conductor check (beside the four) is worse than their withstand check. */
+function protectiveConductorProblems(result: ProjectResult): CircuitResult[] {
+  const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
+  const phase = (c: CircuitResult) => c.checks.find((k) => k.name === 'thermal_withstand')?.status ?? 'pass';
+  return result.circuits.filter((c) => c.protectiveConductor && rank[c.protectiveConductor.status] > rank[phase(c)]);
 }
 
 function allPass(result: ProjectResult): boolean {
@@ -287,19 +296,20 @@ export function solveTable(project: Project, result: ProjectResult): string {
     .flatMap((c) => c.checks.filter((k) => k.status !== 'pass').map((k) => ({ c, k })))
     .sort((a, b) => STATUS_ORDER[a.k.status] - STATUS_ORDER[b.k.status] || byText(a.c.id, b.c.id));
   lines.push('');
-  if (problems.length === 0) lines.push('Every check passes.');
+  if (problems.length === 0) lines.push(protectiveConductorProblems(result).length > 0 ? 'Every check of the verdicts passes (see the protective conductors below).' : 'Every check passes.');
   else {
     lines.push(`Checks that fail or are undetermined (${problems.length})`);
     for (const { c, k } of problems) {
-      const vs = k.value !== null && k.limit !== null ? ` ${checkValue(k.name, k.value)} vs limit ${checkValue(k.name, k.limit)}` : '';
+      const vs =
+        k.limit === null
+          ? ' no limit given'
+          : ` ${k.value === null ? 'value not determined' : checkValue(k.name, k.value)} vs limit ${checkValue(k.name, k.limit)}`;
       lines.push(`  ${STATUS_WORD[k.status].padEnd(5)} ${c.id}  ${CHECK_WORD[k.name]}:${vs}`);
       if (k.explanation) lines.push(`        ${k.explanation}`);
     }
   }
   // The protective conductor's own check (IEC 60364-5-54 543.1.2) stands beside the four checks.
-  const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
-  const phaseStatus = (c: CircuitResult) => c.checks.find((k) => k.name === 'thermal_withstand')?.status ?? 'pass';
-  const peProblems = result.circuits.filter((c) => c.protectiveConductor && rank[c.protectiveConductor.status] > rank[phaseStatus(c)]);
+  const peProblems = protectiveConductorProblems(result);
   if (peProblems.length > 0) {
     lines.push('');
     lines.push(`Protective conductors that fail or are undetermined (${peProblems.length}), beside the four checks`);

@@ -1,7 +1,7 @@
 // `faultsheet init DIR`: a new project folder that checks and builds as it is, and the shipped JSON
 // Schemas its files point their editor at.
 
-import { mkdir, mkdtemp, readdir, rename, rm, rmdir, stat, writeFile } from 'node:fs/promises';
+import { chmod, mkdir, mkdtemp, readdir, rename, rm, rmdir, stat, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { jsonSchemas } from './model/json-schema.js';
 import { packageRoot } from './demo.js';
@@ -57,6 +57,7 @@ export async function initProject(target: string, options: InitOptions = {}): Pr
   }
   const files = starterFiles(target, options.date ?? new Date().toISOString().slice(0, 10));
   const temp = await mkdtemp(path.join(parent, `.${path.basename(target)}.init-`));
+  await chmod(temp, 0o777 & ~process.umask()); // mkdtemp makes it private; a project folder is an ordinary one
   try {
     for (const f of files) {
       await mkdir(path.dirname(path.join(temp, f.path)), { recursive: true });

@@ -71,7 +71,8 @@ function sameArea(a: number, b: number): boolean {
 
 export interface AlternativesOutcome {
   alternatives: Alternative[];
-  smallestCompliantSize: string | null;
+  smallestCompliantSize: string | null; // passes every check
+  smallestWithstandingSize: string | null; // passes the thermal withstand check (the fix for that check alone)
 }
 
 export interface ChosenOutcome {
@@ -128,12 +129,15 @@ export function alternativesFor(c: CircuitCase, chosen: ChosenOutcome, window = 
   );
 
   let smallestCompliantSize: string | null = null;
+  let smallestWithstandingSize: string | null = null;
   for (const row of rows) {
-    const pass = row.step === null ? chosen.evaluation.verdict === 'pass' : evaluateCircuit({ ...c, cable: withSize(c.cable, row.step) }).verdict === 'pass';
-    if (pass) {
-      smallestCompliantSize = row.step === null ? c.cable.size.label : row.step.size.label;
+    const ev = row.step === null ? chosen.evaluation : evaluateCircuit({ ...c, cable: withSize(c.cable, row.step) });
+    const label = row.step === null ? c.cable.size.label : row.step.size.label;
+    if (smallestWithstandingSize === null && ev.energy.status === 'pass') smallestWithstandingSize = label;
+    if (ev.verdict === 'pass') {
+      smallestCompliantSize = label;
       break;
     }
   }
-  return { alternatives, smallestCompliantSize };
+  return { alternatives, smallestCompliantSize, smallestWithstandingSize };
 }

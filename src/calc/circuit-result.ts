@@ -61,6 +61,9 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   if (ev.disconnection.point === null) {
     notes.push(`Earthing ${settings.earthing}: the earth-fault loop through earth electrodes is not modelled; disconnection is not determined (IEC 60364-4-41 411.5 / 411.6 need the electrode and insulation data).`);
   }
+  if (settings.withstandCriterion === 'any-point' && threshold !== null && threshold > 0 && ev.energy.status === 'fail') {
+    notes.push(`Threshold length ${fmt.length(threshold)}: far-end faults pass from this length, but under the any-point criterion a fault at the origin (${fmt.current(ev.origin.ik3max)}) counts whatever the length, so length alone does not resolve the withstand check.`);
+  }
   if (circuit.load && board.voltageDropUnknownUpstream) notes.push('Voltage drop: an upstream circuit has no load given; its drop is taken as zero.');
 
   const thetaMin = minFaultTemperature(settings, cable);
@@ -91,10 +94,12 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   const ze = magnitude(ev.end.zMax);
   const zl = magnitude(ev.end.zLoop);
   q.push({ symbol: "I''k3max,origin", value: ev.origin.ik3max, unit: 'A', formula: 'c_max·U_n / (√3·|Z_k|)', substitution: `${sig(cMax, 3)} × ${fmt.voltage(un)} / (√3 × ${fmt.ohm(zo)})`, reference: REF.ik3 });
-  q.push({ symbol: 'κ origin', value: ev.origin.kappa3, unit: '', formula: '1.02 + 0.98·e^(−3R/X)', substitution: `R/X = ${fmt.ohm(ev.origin.zMax.r)} / ${fmt.ohm(ev.origin.zMax.x)} = ${sig(ev.origin.zMax.r / ev.origin.zMax.x, 4)}`, reference: REF.ip });
+  const rx = ev.origin.zMax.r / ev.origin.zMax.x;
+  q.push({ symbol: 'κ origin', value: ev.origin.kappa3, unit: '', formula: '1.02 + 0.98·e^(−3R/X)', substitution: `1.02 + 0.98 × e^(−3 × ${sig(rx, 4)}), with R/X = ${fmt.ohm(ev.origin.zMax.r)} / ${fmt.ohm(ev.origin.zMax.x)} = ${sig(rx, 4)}`, reference: REF.ip });
   q.push({ symbol: 'i_p,origin', value: ev.origin.ip, unit: 'A', formula: 'κ·√2·I″k3max', substitution: `${sig(ev.origin.kappa3, 4)} × √2 × ${fmt.current(ev.origin.ik3max)}`, reference: REF.ip });
   q.push({ symbol: "I''k3max,end", value: ev.end.ik3max, unit: 'A', formula: 'c_max·U_n / (√3·|Z_k,end|)', substitution: `${sig(cMax, 3)} × ${fmt.voltage(un)} / (√3 × ${fmt.ohm(ze)})`, reference: REF.ik3 });
-  q.push({ symbol: 'i_p,end', value: ev.end.ip, unit: 'A', formula: 'κ·√2·I″k3max,end', substitution: `κ = ${sig(ev.end.kappa3, 4)}`, reference: REF.ip });
+  const rxEnd = ev.end.zMax.r / ev.end.zMax.x;
+  q.push({ symbol: 'i_p,end', value: ev.end.ip, unit: 'A', formula: 'κ·√2·I″k3max,end, κ = 1.02 + 0.98·e^(−3R/X)', substitution: `${sig(ev.end.kappa3, 4)} × √2 × ${fmt.current(ev.end.ik3max)}, with κ = 1.02 + 0.98 × e^(−3 × ${sig(rxEnd, 4)})`, reference: REF.ip });
   q.push({ symbol: "I''k1min,end", value: ev.end.ik1min, unit: 'A', formula: 'c_min·U_n / (√3·|Z_loop|)', substitution: `${sig(cMin, 3)} × ${fmt.voltage(un)} / (√3 × ${fmt.ohm(zl)}), conductors at ${sig(thetaMin, 4)} °C`, reference: REF.ik1 });
   const k = ev.k;
   q.push({
@@ -158,8 +163,8 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
         : 'The protective conductor check is not determined: the let-through energy is not known over the whole range.';
   const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
   if (rank[peCheck.status] > rank[e.status]) notes.push(peExplanation); // worse than the phase check: say so
-  const checks = checkResults(c, ev, circuit, threshold, maxLength, alt.smallestCompliantSize);
-  const defaults: AppliedDefault[] = [...board.defaults, ...circuit.defaults, ...device.defaults.map((d) => ({ ...d, field: `device ${device.id}: ${d.field}` }))];
+  const checks = checkResults(c, ev, circuit, threshold, maxLength, alt.smallestWithstandingSize);
+  const defaults: AppliedDefault[] = [...board.defaults, ...circuit.defaults]; // the device's own are on the Device
   const result: Omit<CircuitResult, 'charts'> = {
     id: circuit.id,
     description: circuit.description,
@@ -216,8 +221,8 @@ function checkResults(
   let thermalText = `Let-through energy does not exceed k²S² = ${fmt.energy(ev.withstand)} over ${range}.`;
   if (e.status === 'fail') {
     const fixes: string[] = [];
-    if (smallest && smallest !== circuit.cable.size.label) fixes.push(`the smallest compliant size is ${smallest}`);
-    else if (!smallest) fixes.push('no standard size passes with this device');
+    if (smallest && smallest !== circuit.cable.size.label) fixes.push(`the smallest size that withstands it is ${smallest}`);
+    else if (!smallest) fixes.push('no standard size withstands it with this device');
     if (threshold !== null && threshold > circuit.cable.length) {
       fixes.push(
         anyPoint

@@ -3,8 +3,18 @@
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from './types.js';
 
+/** 12 significant figures: enough for any check, and 35 kA prints as 35000, not 34999.99999999999. */
+function tidy<T>(value: T): T {
+  if (typeof value === 'number') return (Number.isFinite(value) ? Number(value.toPrecision(12)) : value) as T;
+  if (Array.isArray(value)) return value.map(tidy) as T;
+  if (value !== null && typeof value === 'object') {
+    return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, tidy(v)])) as T;
+  }
+  return value;
+}
+
 export function resultsDocument(project: Project, result: ProjectResult) {
-  return {
+  return tidy({
     project: {
       name: project.meta.name,
       number: project.meta.number,
@@ -62,7 +72,7 @@ export function resultsDocument(project: Project, result: ProjectResult) {
         chosen: a.chosen,
       })),
     })),
-  };
+  });
 }
 
 export type ResultsDocument = ReturnType<typeof resultsDocument>;

@@ -117,7 +117,7 @@ export interface CircuitResult {
   buildUpMin: ImpedanceStep[]; // source to far end, minimum condition (line-PE loop)
   quantities: Traced[]; // every derived quantity the sheet shows, in reading order
   notes: string[]; // tool notes: rules that could not be applied, assumptions the solver made
-  defaults: AppliedDefault[]; // defaults applied to this circuit and its device
+  defaults: AppliedDefault[]; // defaults applied to this circuit and its supply (the device's are in Device.defaults)
   charts: ChartSeries;
 }
 

@@ -10,8 +10,8 @@ export interface DefaultValue<T> {
   source: string;
 }
 
-const FORMAT_DEFAULT = 'faultsheet default (FORMAT.md)';
-const FORMAT_DEFAULT_NO_SOURCE = 'faultsheet default (FORMAT.md); common practice, no source';
+const FORMAT_DEFAULT = 'faultsheet default (docs/FORMAT.md)';
+const FORMAT_DEFAULT_NO_SOURCE = 'faultsheet default (docs/FORMAT.md); common practice, no source';
 
 export const SETTINGS_DEFAULTS = {
   frequency: { value: 50, text: '50 Hz', source: FORMAT_DEFAULT } satisfies DefaultValue<number>,

@@ -121,7 +121,7 @@ function normaliseNetwork(
     faultLevelMin = applied(defaults, `${field}.fault_level_min`, {
       value: faultLevel,
       text: `${formatNumber(faultLevel / 1e6)} MVA`,
-      source: 'faultsheet default (FORMAT.md): equal to fault_level',
+      source: 'faultsheet default (docs/FORMAT.md): equal to fault_level',
     });
   }
   if (faultLevel !== undefined && faultLevelMin !== undefined && faultLevelMin > faultLevel) {
@@ -298,7 +298,7 @@ function normaliseCable(
     applied(defaults, 'cable.protective_conductor', {
       value: undefined,
       text: `${parsed.size.label} ${parsed.conductor}, in-cable, ${parallel} in parallel`,
-      source: 'faultsheet default (FORMAT.md): a conductor of the phase size in the same cable',
+      source: 'faultsheet default (docs/FORMAT.md): a conductor of the phase size in the same cable',
     });
     if (phase !== undefined) {
       protective = {
@@ -314,10 +314,10 @@ function normaliseCable(
     const prefix = 'cable.protective_conductor';
     const size =
       written.size ??
-      applied(defaults, `${prefix}.size`, { value: parsed.size, text: parsed.size.label, source: 'faultsheet default (FORMAT.md): the phase size' });
+      applied(defaults, `${prefix}.size`, { value: parsed.size, text: parsed.size.label, source: 'faultsheet default (docs/FORMAT.md): the phase size' });
     const conductor =
       written.conductor ??
-      applied(defaults, `${prefix}.conductor`, { value: parsed.conductor, text: parsed.conductor, source: 'faultsheet default (FORMAT.md): the phase conductor' });
+      applied(defaults, `${prefix}.conductor`, { value: parsed.conductor, text: parsed.conductor, source: 'faultsheet default (docs/FORMAT.md): the phase conductor' });
     const arrangement = written.arrangement ?? applied(defaults, `${prefix}.arrangement`, CIRCUIT_DEFAULTS.protectiveConductorArrangement);
     const peParallel =
       written.parallel ??

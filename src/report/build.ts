@@ -56,7 +56,7 @@ export async function buildDossier(
     const accept = async (i: number, bytes: Buffer): Promise<void> => {
       const cr = result.circuits[i];
       await staging.write(plan.sheets[i].file, bytes);
-      sheets[i] = { bytes, title: `${unmark(cr.id)} — ${unmark(cr.description)}`, pages: await pageCount(bytes), file: plan.sheets[i].file };
+      sheets[i] = { bytes, title: cr.description ? `${unmark(cr.id)} — ${unmark(cr.description)}` : unmark(cr.id), pages: await pageCount(bytes), file: plan.sheets[i].file };
       opts.onProgress?.(++done, total, cr.id);
     };
     const children = opts.renderer ? 0 : childCount(total, opts.jobs);
@@ -89,6 +89,7 @@ export async function buildDossier(
       date: projectDate(project.meta.date),
       summaryTitle: labels['dossier.summary'],
       sheetsTitle: labels['dossier.sheets'],
+      pageLabel: labels['dossier.page'],
     });
     await staging.write(DOSSIER_FILE, dossier);
     await staging.write(RESULTS_FILE, JSON.stringify(resultsJson, null, 2) + '\n');

@@ -2,7 +2,7 @@
 // with a PDF outline (bookmarks): the summary, then one entry per circuit. pdf-lib writes no clock
 // and no random id here; dates come from the project, the object layout is fixed.
 
-import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef, PDFString } from 'pdf-lib';
+import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef, PDFString, StandardFonts, rgb } from 'pdf-lib';
 
 export interface DossierPart {
   bytes: Uint8Array;
@@ -16,6 +16,7 @@ export interface DossierMeta {
   date: Date;
   summaryTitle: string;
   sheetsTitle: string;
+  pageLabel?: string; // "Dossier page {n} of {total}", stamped under each page's footer
 }
 
 /** Pages of a PDF we wrote. */
@@ -39,6 +40,7 @@ export async function mergeDossier(summary: DossierPart, sheets: DossierPart[], 
     pages.forEach((p) => out.addPage(p));
     firstPages.push(pages[0].ref);
   }
+  if (meta.pageLabel) await stampPageNumbers(out, meta.pageLabel);
   const summaryPages = (await PDFDocument.load(summary.bytes, { updateMetadata: false })).getPageCount();
   const targets = new Map<string, PDFRef>();
   sheets.forEach((s, i) => {
@@ -58,6 +60,22 @@ export async function mergeDossier(summary: DossierPart, sheets: DossierPart[], 
   out.setCreationDate(meta.date);
   out.setModificationDate(meta.date);
   return out.save({ useObjectStreams: false, addDefaultPage: false, updateFieldAppearances: false });
+}
+
+/**
+ * The dossier's own page number under each page's footer, so that the index's page numbers can be
+ * followed in print. Helvetica is one of the standard fonts of PDF (32000-1:2008 9.6.2.2): nothing is
+ * embedded, and the bytes stay the same from build to build.
+ */
+async function stampPageNumbers(doc: PDFDocument, pattern: string): Promise<void> {
+  const font = await doc.embedFont(StandardFonts.Helvetica);
+  const pages = doc.getPages();
+  const size = 6.5;
+  pages.forEach((page, i) => {
+    const text = pattern.replace('{n}', String(i + 1)).replace('{total}', String(pages.length));
+    const { width } = page.getSize();
+    page.drawText(text, { x: (width - font.widthOfTextAtSize(text, size)) / 2, y: 14, size, font, color: rgb(0.45, 0.5, 0.56) });
+  });
 }
 
 /**

@@ -106,7 +106,7 @@ export function assumptionsOf(project: Project, cr: CircuitResult, circuit: Circ
     addDefault({ field: 'cable.resistance', value: fmt.ohmsPerKm(c.resistance20), source: c.resistanceSource }, 'circuit');
   if (c.protectiveConductorDefaulted && !cr.defaults.some((d) => matches(d, 'cable.protective_conductor')))
     addDefault(
-      { field: 'cable.protective_conductor', value: `${c.protectiveConductor.size.label} ${c.protectiveConductor.conductor}, ${c.protectiveConductor.arrangement}`, source: 'FORMAT default (phase size, in the same cable)' },
+      { field: 'cable.protective_conductor', value: `${c.protectiveConductor.size.label} ${c.protectiveConductor.conductor}, ${c.protectiveConductor.arrangement}`, source: 'faultsheet default (docs/FORMAT.md): the phase size, in the same cable' },
       'circuit',
     );
   for (const n of cr.notes) add({ kind: 'note', text: n });
@@ -403,7 +403,7 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
     },
     circuit: {
       id: literal(cr.id),
-      description: literal(cr.description),
+      description: cr.description ? literal(cr.description) : '', // empty stays falsy for {{#if}}
       from: literal(cr.from),
       to: cr.to ? literal(cr.to) : null,
       device: literal(cr.device),
@@ -468,7 +468,7 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
 
   // 1 verdict
   const checksTable = dataTable(
-    [110, 74, 74, 58, '*'],
+    [104, 70, 70, 68, '*'], // the status column fits UNDETERMINED on one line
     [labels['col.check'], labels['col.value'], labels['col.limit'], labels['col.status'], labels['col.governing']],
     checks.map((c) => [
       { stack: [{ text: t(checkLabel(c)), bold: true }, { text: t(c.reference), style: 'small' }], style: 'td' } as TableCell,
@@ -590,7 +590,7 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
       title: `${unmark(project.meta.name)} — ${unmark(cr.id)}`,
       subject: labels['info.subject'] ?? 'Calculation sheet',
       subjectLabel: labels['circuit']!,
-      subjectText: `${unmark(cr.id)} — ${unmark(cr.description)}`,
+      subjectText: cr.description ? `${unmark(cr.id)} — ${unmark(cr.description)}` : unmark(cr.id),
       partLabel: labels['calculation']!,
       part: pageText(labels['calculationOf']!, opts.index, opts.count),
       footerName: unmark(cr.id),
