@@ -36,7 +36,8 @@ export function formatIssue(issue: Issue): string {
   const located = issue.line > 0;
   const location = located ? `${issue.file}:${issue.line}:${issue.col}` : issue.file;
   const severity = issue.severity === 'warning' ? ' warning:' : '';
-  const field = issue.path === '' ? (located || severity ? '' : ':') : ` ${issue.path}:`;
+  // A problem of a whole file has no field: "(top level)" stands in its place.
+  const field = issue.path !== '' ? ` ${issue.path}:` : located ? (severity ? '' : ' (top level):') : ':';
   const expected = issue.expected === undefined ? '' : `, expected ${issue.expected}`;
   return `${location}${severity}${field} ${issue.message}${expected}`;
 }

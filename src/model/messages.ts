@@ -42,7 +42,10 @@ const MESSAGES = {
   'read-error': (d) => ({ message: `cannot be read: ${d.detail ?? 'unknown error'}` }),
   'invalid-encoding': () => ({ message: 'is not valid UTF-8 text', expected: 'a UTF-8 encoded YAML file' }),
   'ignored-file': (d) => ({ message: `is not read (only *.yaml files are)${d.detail ? `: ${d.detail}` : ''}` }),
-  'yaml-syntax': (d) => ({ message: `YAML syntax error: ${d.detail ?? ''}` }),
+  'yaml-syntax': (d) => ({
+    message: `YAML syntax error: ${d.detail ?? ''}`,
+    expected: 'valid YAML: "key: value" pairs, the keys of one mapping indented alike, quotes around text that holds ": "',
+  }),
   'yaml-warning': (d) => ({ message: `YAML: ${d.detail ?? ''}` }),
   'yaml-alias-limit': (d) => ({
     message: `YAML aliases expand more than ${d.limit} times (refused, to protect against runaway expansion)`,

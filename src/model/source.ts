@@ -60,13 +60,15 @@ export function parseYamlFile(path: string, text: string): ParseOutcome {
     problem('yaml-warning', { file: path, ...at(w.pos[0]), path: '' }, { detail: w.message }, 'warning'),
   );
   if (doc.errors.length > 0) {
-    const errors = doc.errors.map((e) =>
-      problem('yaml-syntax', { file: path, ...at(e.pos[0]), path: '' }, { detail: firstLine(e.message) }),
-    );
-    return { ok: false, issues: [...errors, ...warnings] };
+    // The first error only: after it the parser's recovery reports follow-on errors of the same mistake.
+    const e = doc.errors[0]!;
+    const pos = at(e.pos[0]);
+    const key = keyOnLine(source, pos.line);
+    const error = problem('yaml-syntax', { file: path, ...pos, path: key ?? '' }, { detail: firstLine(e.message) });
+    return { ok: false, issues: [error, ...warnings] };
   }
   if (doc.contents === null || (isScalar(doc.contents) && doc.contents.value === null)) {
-    return { ok: false, issues: [problem('empty-file', { file: path, line: 1, col: 1, path: '' }, {}), ...warnings] };
+    return { ok: false, issues: [problem('empty-file', { file: path, line: 1, col: 1, path: '' }, { expected: expectedContent(path) }), ...warnings] };
   }
   let value: unknown;
   try {
@@ -84,6 +86,19 @@ export function parseYamlFile(path: string, text: string): ParseOutcome {
   const file: SourceFile = { path, doc, lineCounter, value };
   keepTextAsWritten(file, source);
   return { ok: true, file, issues: warnings };
+}
+
+/** The key written on a line ("  length: 45 m" gives "length"), to name the field of a syntax error. */
+function keyOnLine(source: string, line: number): string | undefined {
+  const text = source.split(/\r?\n/)[line - 1] ?? '';
+  return /^\s*(?:-\s+)?([A-Za-z_][A-Za-z0-9_-]*)\s*:/.exec(text)?.[1];
+}
+
+/** What a file of this place in the project folder holds, for a message about an empty file. */
+function expectedContent(path: string): string {
+  if (path.startsWith('devices/')) return 'a list of devices under "devices:"';
+  if (path.startsWith('circuits/')) return 'a circuit (a mapping with "id", "from", "device", "cable") or a list under "circuits:"';
+  return 'the sections "project:", "settings:" and "supplies:"';
 }
 
 function firstLine(message: string): string {

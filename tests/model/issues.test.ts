@@ -20,8 +20,8 @@ describe('formatIssue', () => {
       'circuits/a.yaml:12:11 cable.length: "45" has no unit, expected a length such as "45 m"',
     );
   });
-  it('leaves out the field for a whole-file problem, and the position where there is none', () => {
-    expect(formatIssue(issue({ path: '', message: 'the file is empty' }))).toBe('circuits/a.yaml:1:1 the file is empty');
+  it('names a whole-file problem "(top level)", and leaves out the position where there is none', () => {
+    expect(formatIssue(issue({ path: '', message: 'the file is empty' }))).toBe('circuits/a.yaml:1:1 (top level): the file is empty');
     expect(formatIssue(issue({ file: 'project.yaml', line: 0, col: 0, path: '', message: 'file not found' }))).toBe('project.yaml: file not found');
   });
   it('marks warnings', () => {
