@@ -234,9 +234,7 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
 
 /** Circuits whose protective-conductor check (beside the four) is worse than their withstand check. */
 function protectiveConductorProblems(result: ProjectResult): CircuitResult[] {
-  const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
-  const phase = (c: CircuitResult) => c.checks.find((k) => k.name === 'thermal_withstand')?.status ?? 'pass';
-  return result.circuits.filter((c) => c.protectiveConductor && rank[c.protectiveConductor.status] > rank[phase(c)]);
+  return result.circuits.filter((c) => c.protectiveConductor?.worseThanPhase);
 }
 
 function allPass(result: ProjectResult): boolean {

@@ -162,7 +162,8 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
         ? `The protective conductor (${peArea}, k = ${sig(peCheck.k.k, 4)}) withstands only ${fmt.energy(peCheck.withstand)}, less than the largest let-through energy over the range of the phase check, ${fmt.energy(e.largestFound?.energy ?? 0)}, which bounds the earth-fault energy on the safe side (IEC 60364-5-54 543.1.2): enlarge it to at least ${sig(Math.sqrt(e.largestFound?.energy ?? 0) / peCheck.k.k / cable.protectiveConductor.parallel, 3)} mm² per conductor. This check stands beside the four checks of the verdict.`
         : 'The protective conductor check is not determined: the let-through energy is not known over the whole range.';
   const rank = { pass: 0, undetermined: 1, fail: 2 } as const;
-  if (rank[peCheck.status] > rank[e.status]) notes.push(peExplanation); // worse than the phase check: say so
+  const peWorse = rank[peCheck.status] > rank[e.status];
+  if (peWorse) notes.push(peExplanation); // worse than the phase check: say so
   const checks = checkResults(c, ev, circuit, threshold, maxLength, alt.smallestWithstandingSize);
   const defaults: AppliedDefault[] = [...board.defaults, ...circuit.defaults]; // the device's own are on the Device
   const result: Omit<CircuitResult, 'charts'> = {
@@ -182,7 +183,7 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
     voltageDrop: ev.voltageDrop?.total ?? null,
     verdict: ev.verdict,
     checks,
-    protectiveConductor: { k: peCheck.k.k, withstand: peCheck.withstand, status: peCheck.status, explanation: peExplanation, reference: 'IEC 60364-5-54:2011 543.1.2' },
+    protectiveConductor: { k: peCheck.k.k, withstand: peCheck.withstand, status: peCheck.status, worseThanPhase: peWorse, explanation: peExplanation, reference: 'IEC 60364-5-54:2011 543.1.2' },
     energy: { status: e.status, governingCurrent: e.governingCurrent, letThrough: e.letThrough, rule: e.rule, currentMin: e.currentMin, currentMax: e.currentMax },
     alternatives: alt.alternatives,
     smallestCompliantSize: alt.smallestCompliantSize,

@@ -109,7 +109,14 @@ export interface CircuitResult {
   verdict: Status;
   checks: CheckResult[];
   /** The protective conductor's adiabatic check (IEC 60364-5-54 543.1.2), reported beside the four checks. */
-  protectiveConductor?: { k: number; withstand: number; status: Status; explanation: string; reference: string };
+  protectiveConductor?: {
+    k: number;
+    withstand: number;
+    status: Status;
+    worseThanPhase: boolean; // true where this check tells more than the withstand check already does
+    explanation: string;
+    reference: string;
+  };
   energy: EnergyEvaluation;
   alternatives: Alternative[];
   smallestCompliantSize: string | null;

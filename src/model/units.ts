@@ -91,14 +91,22 @@ function readUnit(unitText: string): { ok: true; unit: Unit } | { ok: false; det
   }
 }
 
-/** A number followed by a unit of the given dimension, converted to SI. */
-export function parseQuantity(text: string, dimension: Dimension): QuantityResult {
+/** "45 m" -> 45 and "m"; a text that is no number, or a number without its unit, is a problem. */
+function splitNumberAndUnit(text: string): { ok: true; magnitude: number; unitText: string } | { ok: false; problem: 'not-a-number' | 'missing-unit' } {
   const match = NUMBER_THEN_UNIT.exec(text);
   if (match === null) return { ok: false, problem: 'not-a-number' };
   const magnitude = Number(match[1]);
   const unitText = match[2]!;
   if (!Number.isFinite(magnitude)) return { ok: false, problem: 'not-a-number' };
   if (unitText === '') return { ok: false, problem: 'missing-unit' };
+  return { ok: true, magnitude, unitText };
+}
+
+/** A number followed by a unit of the given dimension, converted to SI. */
+export function parseQuantity(text: string, dimension: Dimension): QuantityResult {
+  const split = splitNumberAndUnit(text);
+  if (!split.ok) return split;
+  const { magnitude, unitText } = split;
   const read = readUnit(unitText);
   if (!read.ok) return { ok: false, problem: 'unknown-unit', detail: unitText };
   const { unit } = read;
@@ -128,12 +136,9 @@ export function parseUnitFactor(unitText: string, dimension: Dimension): Quantit
 
 /** "5.75 %" -> 5.75 (the number of percent; the field decides whether it wants a fraction). */
 export function parsePercent(text: string): QuantityResult {
-  const match = NUMBER_THEN_UNIT.exec(text);
-  if (match === null) return { ok: false, problem: 'not-a-number' };
-  const magnitude = Number(match[1]);
-  const unitText = match[2]!;
-  if (!Number.isFinite(magnitude)) return { ok: false, problem: 'not-a-number' };
-  if (unitText === '') return { ok: false, problem: 'missing-unit' };
+  const split = splitNumberAndUnit(text);
+  if (!split.ok) return split;
+  const { magnitude, unitText } = split;
   if (unitText !== '%' && unitText !== 'percent') {
     return { ok: false, problem: 'wrong-dimension', detail: unitText };
   }

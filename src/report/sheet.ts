@@ -7,7 +7,7 @@ import type { AppliedDefault, Circuit, Device, Project, Supply } from '../model/
 import type { CheckResult, CircuitResult, ImpedanceStep, Traced } from '../calc/types.js';
 import * as fmt from './format.js';
 import { literal, unmark, type Run } from './typeset.js';
-import type { TemplateSet } from './templates.js';
+import { projectContext, type TemplateSet } from './templates.js';
 import {
   CONTENT_WIDTH,
   COLOURS,
@@ -388,14 +388,7 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
   const none = labels['none'] ?? 'none';
   const context = {
     project: {
-      name: literal(project.meta.name),
-      number: literal(project.meta.number),
-      revision: literal(project.meta.revision),
-      date: literal(project.meta.date),
-      client: project.meta.client ? literal(project.meta.client) : null,
-      hash: project.inputSha256,
-      hashShort: project.inputSha256.slice(0, 12),
-      criterion: project.settings.withstandCriterion,
+      ...projectContext(project),
       criterionText: criterionText(project),
       cMax: project.settings.voltageFactorMax.toFixed(2),
       cMin: project.settings.voltageFactorMin.toFixed(2),

@@ -8,7 +8,7 @@ import type { Project, Supply } from '../model/types.js';
 import type { BoardResult, CircuitResult, ProjectResult, Status } from '../calc/types.js';
 import * as fmt from './format.js';
 import { literal, unmark } from './typeset.js';
-import type { TemplateSet } from './templates.js';
+import { projectContext, type TemplateSet } from './templates.js';
 import { COLOURS, FONT, blocksToContent, dataTable, packageDocument, signoffBlocks, statusCell, t } from './layout.js';
 import { checkValue } from './sheet.js';
 
@@ -119,14 +119,7 @@ export function summaryDocument(project: Project, result: ProjectResult, opts: S
     );
   const context = {
     project: {
-      name: literal(project.meta.name),
-      number: literal(project.meta.number),
-      revision: literal(project.meta.revision),
-      date: literal(project.meta.date),
-      client: project.meta.client ? literal(project.meta.client) : null,
-      hash: project.inputSha256,
-      hashShort: project.inputSha256.slice(0, 12),
-      criterion: project.settings.withstandCriterion,
+      ...projectContext(project),
       voltage: fmt.volts(project.settings.systemVoltage),
       earthing: project.settings.earthing,
     },

@@ -5,6 +5,8 @@
 
 import Handlebars from 'handlebars';
 import * as fmt from './format.js';
+import type { Project } from '../model/types.js';
+import { literal } from './typeset.js';
 
 /** A template set as read from disk: relative posix path ("sheet/verdict.hbs") -> source. */
 export type TemplateFiles = ReadonlyMap<string, string>;
@@ -228,4 +230,18 @@ export function parseBlocks(text: string): Rendered {
     }
   }
   return { blocks, literals };
+}
+
+/** The project's fields every template may print: user text marked literal, never compiled. */
+export function projectContext(project: Project) {
+  return {
+    name: literal(project.meta.name),
+    number: literal(project.meta.number),
+    revision: literal(project.meta.revision),
+    date: literal(project.meta.date),
+    client: project.meta.client ? literal(project.meta.client) : null,
+    hash: project.inputSha256,
+    hashShort: project.inputSha256.slice(0, 12),
+    criterion: project.settings.withstandCriterion,
+  };
 }
