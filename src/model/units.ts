@@ -74,6 +74,8 @@ function referenceUnit(dimension: Dimension): Unit {
  */
 export function normaliseUnitText(text: string): string {
   return text
+    .replace(/°\s*C\b/g, 'degC')
+    .replace(/°\s*F\b/g, 'degF')
     .replace(/Ω/g, 'ohm')
     .replace(/[µμ]/g, 'u')
     .replace(/²/g, '^2')

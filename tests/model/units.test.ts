@@ -43,6 +43,7 @@ describe('parseQuantity', () => {
     ['1.5e5 A²s', 'joule-integral', 1.5e5],
     ['2 kA^2 s', 'joule-integral', 2e6],
     ['160 degC', 'temperature', 160],
+    ['160 °C', 'temperature', 160], // the degree sign as engineers write it
     ['45m', 'length', 45],
   ] as const)('%s is %s %d (SI)', (text, dimension, expected) => {
     expect(si(text, dimension)).toBeCloseTo(expected, 12);
