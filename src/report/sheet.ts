@@ -223,7 +223,8 @@ function cableRows(circuit: Circuit): Row[] {
     rows.push(
       { label: 'Design current I_b', value: fmt.amps(circuit.load.current), field: 'load.current', scope: 'circuit' },
       { label: 'Power factor cos phi', value: circuit.load.powerFactor.toFixed(2), field: 'load.power_factor', scope: 'circuit' },
-      { label: 'Load phases', value: circuit.load.phases === 1 ? '1 (line to neutral)' : '3', field: 'load.phases', scope: 'circuit' },
+      // single-phase stands out; three phases (the format's default) is listed among the defaults
+      ...(circuit.load.phases === 1 ? [{ label: 'Load phases', value: '1 (line to neutral)', field: 'load.phases', scope: 'circuit' as const }] : []),
     );
   else rows.push({ label: 'Load', value: 'not given: voltage drop not checked', field: 'load', scope: 'circuit' });
   rows.push(
