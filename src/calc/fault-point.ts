@@ -95,3 +95,41 @@ export function kappaAlongCable(settings: Settings, source: SourceAtBoard, cable
     return peakFactor({ r: rs + l * r1, x: xs + l * x1 });
   };
 }
+
+/**
+ * The length of this cable at whose far end the maximum three-phase current ('max') or the minimum
+ * line-PE current ('loop') equals `current`; null where no length from 0 to `limit` gives it.
+ */
+export function lengthAtCurrent(
+  settings: Settings,
+  source: SourceAtBoard,
+  cable: Cable,
+  current: number,
+  kind: 'max' | 'loop',
+  limit: number,
+): number | null {
+  const pe = cable.protectiveConductor;
+  let z0: Impedance;
+  let r1: number;
+  let x1: number;
+  let c: number;
+  if (kind === 'max') {
+    z0 = source.zMax;
+    r1 = cable.resistance20 / cable.parallel;
+    x1 = cable.reactance / cable.parallel;
+    c = settings.voltageFactorMax;
+  } else {
+    const hot = resistanceAt(1, minFaultTemperature(settings, cable));
+    z0 = source.zLoopMin;
+    r1 = hot * (cable.resistance20 / cable.parallel + pe.resistance20 / pe.parallel);
+    x1 = cable.reactance / cable.parallel + cable.reactance / pe.parallel;
+    c = settings.voltageFactorMin;
+  }
+  const z = (c * settings.systemVoltage) / (Math.sqrt(3) * current);
+  const a = r1 * r1 + x1 * x1;
+  const b = 2 * (z0.r * r1 + z0.x * x1);
+  const k = z0.r * z0.r + z0.x * z0.x - z * z;
+  if (a <= 0 || k > 0) return null; // the current exceeds the origin's
+  const l = (-b + Math.sqrt(b * b - 4 * a * k)) / (2 * a);
+  return l >= 0 && l <= limit ? l : null;
+}

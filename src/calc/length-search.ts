@@ -2,7 +2,8 @@
 // check on far-end faults passes, and the maximum length at which the smallest far-end fault still
 // disconnects in time. Searched on a log grid up to 10 km, then refined by bisection.
 
-import { isDefiniteTimeOnly } from './device.js';
+import { isDefiniteTimeOnly, responseBreakpoints } from './device.js';
+import { lengthAtCurrent } from './fault-point.js';
 import { type CircuitCase, earthFaultLoopModelled, farEndDisconnection, farEndEnergy } from './circuit.js';
 
 export const LENGTH_SEARCH_LIMIT = 10_000; // m
@@ -16,6 +17,24 @@ const GRID: readonly number[] = (() => {
   points[points.length - 1] = LENGTH_SEARCH_LIMIT;
   return points;
 })();
+
+/**
+ * The lengths to try: the log grid, plus the lengths at which a far-end current crosses a step of the
+ * device's response (a curve's end, the pickup), with a millimetre either side. Between those lengths
+ * the status changes only where the operating time crosses a limit, which the bisection finds; a
+ * narrow window that passes beyond a region with no rule is not stepped over.
+ */
+function candidateLengths(c: CircuitCase, kinds: ReadonlyArray<'max' | 'loop'>): number[] {
+  const out = [...GRID];
+  for (const current of responseBreakpoints(c.device.device)) {
+    for (const kind of kinds) {
+      const l = lengthAtCurrent(c.settings, c.source, c.cable, current, kind, LENGTH_SEARCH_LIMIT);
+      if (l === null) continue;
+      for (const x of [l - 1e-3, l, l + 1e-3]) if (x > 0 && x < LENGTH_SEARCH_LIMIT) out.push(x);
+    }
+  }
+  return [...new Set(out)].sort((a, b) => a - b);
+}
 
 /** Boundary between a length where `ok` is `okAtLo` and one where it is not, to 1 mm. */
 function bisect(lo: number, hi: number, ok: (length: number) => boolean, okAtLo: boolean): number {
@@ -31,8 +50,9 @@ function bisect(lo: number, hi: number, ok: (length: number) => boolean, okAtLo:
 export function thresholdLength(c: CircuitCase, withstand: number): number | null {
   const passes = (length: number) => farEndEnergy(c, length, withstand).status === 'pass';
   if (passes(0)) return 0;
-  for (let i = 1; i < GRID.length; i++) {
-    if (passes(GRID[i]!)) return bisect(GRID[i - 1]!, GRID[i]!, passes, false);
+  const lengths = candidateLengths(c, ['max', 'loop']);
+  for (let i = 1; i < lengths.length; i++) {
+    if (passes(lengths[i]!)) return bisect(lengths[i - 1]!, lengths[i]!, passes, false);
   }
   return null;
 }
@@ -49,14 +69,15 @@ export function maxProtectedLength(c: CircuitCase): number | null {
   const ok = (length: number) => at(length) === 'pass';
   // The largest grid length that passes, searched from the top down. At zero length the device may be
   // undetermined (a curve that stops below the largest fault) and still operate in time further out.
+  const lengths = candidateLengths(c, ['loop']);
   let last = -1;
-  for (let i = GRID.length - 1; i >= 0; i--) {
-    if (ok(GRID[i]!)) {
+  for (let i = lengths.length - 1; i >= 0; i--) {
+    if (ok(lengths[i]!)) {
       last = i;
       break;
     }
   }
-  if (last < 0) return at(0) === 'fail' || GRID.some((l) => at(l) === 'fail') ? 0 : null;
-  if (last === GRID.length - 1) return LENGTH_SEARCH_LIMIT;
-  return bisect(GRID[last]!, GRID[last + 1]!, ok, true);
+  if (last < 0) return lengths.some((l) => at(l) === 'fail') ? 0 : null;
+  if (last === lengths.length - 1) return LENGTH_SEARCH_LIMIT;
+  return bisect(lengths[last]!, lengths[last + 1]!, ok, true);
 }

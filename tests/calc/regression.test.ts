@@ -80,3 +80,41 @@ describe('let-through value where part of the range has no rule', () => {
     expect(c.checks[0]!.explanation).toContain('exceeds');
   });
 });
+
+describe('a narrow window that passes beyond a region with no rule (found in a randomized cross-check)', () => {
+  // 25 A breaker: thermal curve up to 125 A (4.8 s there), instantaneous from 250 A, nothing between.
+  // Far-end I"k1min falls with length: instantaneous (pass), then the gap (undetermined), then the curve,
+  // which is within 5 s only just below 125 A. The maximum protected length is the far edge of that
+  // narrow window, where the curve gives 5 s.
+  const mcb = device({
+    kind: 'mcb',
+    rating: 25,
+    breakingCapacity: 10_000,
+    instantaneous: { pickup: 250, clearingTime: 0.01 },
+    tripCurve: pts([[36.25, 3600], [75, 20], [125, 4.8]]),
+  });
+  const ze = 0.3;
+  const c = solveProject(
+    project({
+      supplies: [serviceSupply(10_000, 1, ze)],
+      devices: [mcb],
+      circuits: [circuit({ cable: { ...cable({ mm2: 4, length: 20 }), insulation: 'PVC' }, checks: { disconnectionTime: 5, voltageDropLimit: 5 } })],
+    }),
+  ).circuits[0]!;
+  it('is found, where the log-log curve gives 5 s', () => {
+    // current at 5 s on the segment (75 A, 20 s)-(125 A, 4.8 s), log-log
+    const slope = Math.log(4.8 / 20) / Math.log(125 / 75);
+    const i5 = 75 * (5 / 20) ** (1 / slope);
+    // length at which I"k1min = i5: |Z_e + L (2 r_theta + j 2 x)| = c_min U_n / (sqrt(3) i5), 4 mm2 Cu 4.61 ohm/km
+    // (IEC 60228 Table 2) at 160 degC (PVC final), x 0.08 ohm/km; Z_e at X/R = 1
+    const r1 = 2 * 4.61e-3 * (1 + 0.004 * 140);
+    const x1 = 2 * 0.08e-3;
+    const z = (0.95 * 400) / (Math.sqrt(3) * i5);
+    const s = ze / Math.SQRT2;
+    const a = r1 * r1 + x1 * x1;
+    const b = 2 * (s * r1 + s * x1);
+    const k = 2 * s * s - z * z;
+    const expected = (-b + Math.sqrt(b * b - 4 * a * k)) / (2 * a);
+    expect(c.maxLength!).toBeCloseTo(expected, 1);
+  });
+});
