@@ -130,6 +130,8 @@ export function alternativesFor(c: CircuitCase, chosen: ChosenOutcome, window = 
 
   let smallestCompliantSize: string | null = null;
   let smallestWithstandingSize: string | null = null;
+  // The breaking check does not depend on the size: where it fails, no size complies.
+  const compliantPossible = chosen.evaluation.breaking.status !== 'fail';
   for (const row of rows) {
     const ev = row.step === null ? chosen.evaluation : evaluateCircuit({ ...c, cable: withSize(c.cable, row.step) });
     const label = row.step === null ? c.cable.size.label : row.step.size.label;
@@ -138,6 +140,7 @@ export function alternativesFor(c: CircuitCase, chosen: ChosenOutcome, window = 
       smallestCompliantSize = label;
       break;
     }
+    if (!compliantPossible && smallestWithstandingSize !== null) break;
   }
   return { alternatives, smallestCompliantSize, smallestWithstandingSize };
 }

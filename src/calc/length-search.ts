@@ -25,15 +25,25 @@ const GRID: readonly number[] = (() => {
  * narrow window that passes beyond a region with no rule is not stepped over.
  */
 function candidateLengths(c: CircuitCase, kinds: ReadonlyArray<'max' | 'loop'>): number[] {
-  const out = [...GRID];
+  const extra: number[] = [];
   for (const current of responseBreakpoints(c.device.device)) {
     for (const kind of kinds) {
       const l = lengthAtCurrent(c.settings, c.source, c.cable, current, kind, LENGTH_SEARCH_LIMIT);
       if (l === null) continue;
-      for (const x of [l - 1e-3, l, l + 1e-3]) if (x > 0 && x < LENGTH_SEARCH_LIMIT) out.push(x);
+      for (const x of [l - 1e-3, l, l + 1e-3]) if (x > 0 && x < LENGTH_SEARCH_LIMIT) extra.push(x);
     }
   }
-  return [...new Set(out)].sort((a, b) => a - b);
+  if (extra.length === 0) return GRID as number[];
+  extra.sort((a, b) => a - b);
+  // merge two sorted lists (this runs for every circuit: no set, no full sort)
+  const out: number[] = [];
+  let i = 0;
+  let j = 0;
+  while (i < GRID.length || j < extra.length) {
+    const next = j >= extra.length || (i < GRID.length && GRID[i]! <= extra[j]!) ? GRID[i++]! : extra[j++]!;
+    if (out.length === 0 || next > out[out.length - 1]!) out.push(next);
+  }
+  return out;
 }
 
 /** Boundary between a length where `ok` is `okAtLo` and one where it is not, to 1 mm. */
