@@ -1,7 +1,7 @@
 // `init` writes a project that `check` and `solve` accept; input errors name file:line:col, no stack.
 
 import { existsSync } from 'node:fs';
-import { readFile, readdir, writeFile, mkdir } from 'node:fs/promises';
+import { readFile, readdir, stat, writeFile, mkdir } from 'node:fs/promises';
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { hasStack, run, tempDir } from './run.js';
@@ -28,6 +28,12 @@ describe('init', () => {
     expect(check.stderr).toBe('');
     expect(check.code).toBe(0);
     expect(check.stdout).toBe('3 files, 1 circuit: no problems\n');
+  });
+
+  it('makes an ordinary folder that colleagues can read (the umask decides, not a private temp folder)', async () => {
+    await run(['init', 'shared'], tmp.dir);
+    const mode = (await stat(path.join(tmp.dir, 'shared'))).mode & 0o777;
+    expect(mode).toBe(0o777 & ~process.umask());
   });
 
   it('puts an editor schema hint at the top of every file, pointing at a shipped schema', async () => {

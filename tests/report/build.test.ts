@@ -143,6 +143,14 @@ describe('links from the index of circuits', () => {
     const uris = (await links(path.join(outA, 'summary.pdf'))).map((l) => l.uri);
     for (const f of ['DB-1-C3.pdf', 'MSB-Q1.pdf', 'MSB-Q4.pdf', 'MSB-Q7.pdf']) expect(uris).toContain(f);
   });
+  it('prints the dossier page number on every dossier page, so the index can be followed on paper', () => {
+    const total = pdfPages(path.join(outA, 'dossier.pdf'));
+    for (const page of [1, total]) {
+      expect(pdfText(path.join(outA, 'dossier.pdf'), { first: page, last: page })).toContain(`Dossier page ${page} of ${total}`);
+    }
+    expect(pdfText(path.join(outA, 'summary.pdf'))).not.toContain('Dossier page');
+  });
+
   it('in the dossier each link jumps to the first page of its sheet instead', async () => {
     const dossier = await links(path.join(outA, 'dossier.pdf'));
     expect(dossier.length).toBeGreaterThan(0);
