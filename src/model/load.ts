@@ -255,7 +255,11 @@ export function buildProject(folder: ProjectFolder): LoadOutcome {
       part.settings,
       reporterFor(file, prefix, issues),
     );
-    if (circuit !== undefined) circuits.push(circuit);
+    if (circuit !== undefined) {
+      const written = (raw as { cable?: { length?: unknown } })?.cable?.length;
+      if (typeof written === 'string') circuit.cable.lengthWritten = written.trim();
+      circuits.push(circuit);
+    }
   }
 
   if (hasErrors(issues) || part.meta === undefined || part.settings === undefined) {

@@ -138,6 +138,7 @@ export interface Cable {
   size: ConductorSize;
   parallel: number;
   length: number; // m
+  lengthWritten?: string; // the length as the author wrote it ("150 ft"), so a sheet can repeat it
   resistance20: number; // ohm/m of one conductor at 20 degC
   resistanceSource: string;
   resistanceGiven: boolean; // true where the author wrote `resistance`

@@ -208,7 +208,7 @@ function cableRows(circuit: Circuit): Row[] {
     { label: 'Conductor, insulation', value: `${c.conductor}, ${c.insulation}`, field: 'cable.conductor', scope: 'circuit' },
     { label: 'Size S', value: [{ text: unmark(c.size.label).replace(/mm2\b/, 'mm²') }, ...(c.parallel > 1 ? [{ text: ` × ${c.parallel} in parallel` }] : [])], field: 'cable.size', scope: 'circuit' },
     { label: 'Conductors in parallel', value: String(c.parallel), field: 'cable.parallel', scope: 'circuit' },
-    { label: 'Length L', value: fmt.metres(c.length), field: 'cable.length', scope: 'circuit' },
+    { label: 'Length L', value: lengthText(c.length, '', inFeet(circuit)), field: 'cable.length', scope: 'circuit' },
     { label: 'Resistance R_20', value: fmt.ohmsPerKm(c.resistance20), field: 'cable.resistance', scope: 'circuit', note: c.resistanceGiven ? 'given' : c.resistanceSource },
     { label: 'Reactance X', value: fmt.ohmsPerKm(c.reactance), field: 'cable.reactance', scope: 'circuit' },
     {
@@ -369,8 +369,14 @@ function chartImage(name: string, caption: Run[]): Content {
   };
 }
 
-function lengthText(v: number | null, none: string): string {
-  return v == null ? none : fmt.metres(v);
+/** True where the author wrote this cable's length in feet: the sheet then repeats lengths in feet. */
+function inFeet(circuit: Circuit | undefined): boolean {
+  return /\b(ft|feet|foot)\s*$/i.test(circuit?.cable.lengthWritten ?? '');
+}
+
+function lengthText(v: number | null, none: string, feet = false): string {
+  if (v == null) return none;
+  return feet ? `${fmt.metres(v)} (${Math.round(v / 0.3048)} ft)` : fmt.metres(v);
 }
 
 /** The pdfmake document definition of one circuit's calculation sheet. */
@@ -442,8 +448,8 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
       currentMin: fmt.kiloamps(cr.energy.currentMin),
       currentMax: fmt.kiloamps(cr.energy.currentMax),
     },
-    thresholdLength: lengthText(cr.thresholdLength, labels['length.noThreshold'] ?? none),
-    maxLength: lengthText(cr.maxLength, labels['length.noMax'] ?? none),
+    thresholdLength: lengthText(cr.thresholdLength, labels['length.noThreshold'] ?? none, inFeet(circuit)),
+    maxLength: lengthText(cr.maxLength, labels['length.noMax'] ?? none, inFeet(circuit)),
     hasThreshold: cr.thresholdLength != null,
     hasMaxLength: cr.maxLength != null,
     voltageDrop: cr.voltageDrop == null ? null : fmt.percent(cr.voltageDrop),
@@ -511,9 +517,9 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
     [190, '*'],
     [labels['col.quantity'], labels['col.value']],
     [
-      [labels['length.actual'], fmt.metres(circuit.cable.length)],
-      [labels['length.threshold'], lengthText(cr.thresholdLength, labels['length.noThreshold'] ?? none)],
-      [labels['length.max'], lengthText(cr.maxLength, labels['length.noMax'] ?? none)],
+      [labels['length.actual'], lengthText(circuit.cable.length, none, inFeet(circuit))],
+      [labels['length.threshold'], lengthText(cr.thresholdLength, labels['length.noThreshold'] ?? none, inFeet(circuit))],
+      [labels['length.max'], lengthText(cr.maxLength, labels['length.noMax'] ?? none, inFeet(circuit))],
       ...(cr.voltageDrop != null ? [[labels['length.voltageDrop'], fmt.percent(cr.voltageDrop)]] : []),
     ],
   );

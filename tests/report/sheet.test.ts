@@ -90,6 +90,15 @@ describe('calculation sheet', () => {
     expect(t).toContain(`(${desc})`);
   });
 
+  it('repeats lengths in feet where the author wrote the length in feet (1 ft = 0.3048 m, exact)', () => {
+    const p = fixtureProject();
+    const circuit = p.circuits.find((c) => c.id === 'MSB-Q1')!;
+    circuit.cable = { ...circuit.cable, length: 45.72, lengthWritten: '150 ft' };
+    const t = docText(sheetOf('MSB-Q1', p, result));
+    expect(t).toContain('45.7 m (150 ft)');
+    expect(docText(sheetOf('MSB-Q1'))).not.toContain(' ft)');
+  });
+
   it('groups traced quantities by what they are', () => {
     const groups = result.circuits[1].quantities.map((q) => `${q.symbol}:${quantityGroup(q)}`);
     expect(groups).toContain("I''k3max:fault");
