@@ -2,9 +2,9 @@
 // quantity with formula, substituted values and result.
 
 import type { AppliedDefault, Circuit, Device, Project } from '../model/types.js';
-import type { CheckResult, CircuitResult, ImpedanceStep, Traced } from './types.js';
+import type { CheckResult, CircuitResult, Traced } from './types.js';
 import { type CircuitCase, type CircuitEvaluation, cableVoltageDrop, evaluateCircuit } from './circuit.js';
-import { cableLoopImpedance, cablePhaseImpedance, add, magnitude, resistanceAt } from './impedance.js';
+import { appendStep, cableLoopImpedance, cablePhaseImpedance, magnitude, resistanceAt } from './impedance.js';
 import { minFaultTemperature } from './fault-point.js';
 import { maxProtectedLength, thresholdLength } from './length-search.js';
 import { isDefiniteTimeOnly } from './device.js';
@@ -23,11 +23,6 @@ const REF = {
   disconnection: 'IEC 60364-4-41:2005 411.3.2',
   voltageDrop: 'IEC 60364-5-52:2009 Annex G',
 };
-
-function cableStep(element: string, detail: string, z: { r: number; x: number }, before: ImpedanceStep[]): ImpedanceStep[] {
-  const prev = before.length > 0 ? before[before.length - 1]!.total : { r: 0, x: 0 };
-  return [...before, { element, detail, z, total: add(prev, z) }];
-}
 
 export function circuitResult(project: Project, circuit: Circuit, device: Device, board: BoardState): CircuitResult {
   const settings = project.settings;
@@ -71,19 +66,19 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   const loop = cableLoopImpedance(cable, cable.length, thetaMin);
   const pe = cable.protectiveConductor;
   const cableLabel = `${cable.parallel > 1 ? `${cable.parallel} × ` : ''}${cable.size.label} ${cable.conductor} ${cable.insulation}, ${fmt.length(cable.length)}`;
-  const buildUpMax = cableStep(
+  const buildUpMax = appendStep(
+    board.buildUpMax,
     `Circuit ${circuit.id} cable (phase, 20 °C)`,
     `${cableLabel}: R = ${sig(cable.resistance20 * 1000, 4)} Ω/km × ${fmt.length(cable.length)} / ${cable.parallel} = ${fmt.ohm(phase20.r)}; ` +
       `X = ${sig(cable.reactance * 1000, 3)} Ω/km × ${fmt.length(cable.length)} / ${cable.parallel} = ${fmt.ohm(phase20.x)}`,
     phase20,
-    board.buildUpMax,
   );
-  const buildUpMin = cableStep(
+  const buildUpMin = appendStep(
+    board.buildUpMin,
     `Circuit ${circuit.id} cable (phase + PE, ${sig(thetaMin, 4)} °C)`,
     `R_θ = R_20 [1 + 0.004 (θ − 20)], θ = ${sig(thetaMin, 4)} °C; phase ${sig(resistanceAt(cable.resistance20, thetaMin) * 1000, 4)} Ω/km / ${cable.parallel}, ` +
       `PE ${pe.size.label} ${pe.conductor} ${sig(resistanceAt(pe.resistance20, thetaMin) * 1000, 4)} Ω/km / ${pe.parallel}; X_PE per length = X phase`,
     loop,
-    board.buildUpMin,
   );
 
   const un = settings.systemVoltage;

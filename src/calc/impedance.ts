@@ -1,13 +1,19 @@
 // Source and cable impedances for short-circuit calculation, IEC 60909-0:2016 clause 6.
 
 import type { Cable, NetworkFeeder, ServiceSupply, Transformer } from '../model/types.js';
-import type { Impedance } from './types.js';
+import type { Impedance, ImpedanceStep } from './types.js';
 import { fmt, sig } from './quantity-text.js';
 
 export const ZERO: Impedance = { r: 0, x: 0 };
 
 export function add(a: Impedance, b: Impedance): Impedance {
   return { r: a.r + b.r, x: a.x + b.x };
+}
+
+/** The build-up with one more element, its running total carried on (a new array: steps are shared). */
+export function appendStep(steps: readonly ImpedanceStep[], element: string, detail: string, z: Impedance): ImpedanceStep[] {
+  const prev = steps.length > 0 ? steps[steps.length - 1]!.total : ZERO;
+  return [...steps, { element, detail, z, total: add(prev, z) }];
 }
 
 export function scale(z: Impedance, factor: number): Impedance {

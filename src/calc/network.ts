@@ -3,7 +3,7 @@
 import type { AppliedDefault, Circuit, Project } from '../model/types.js';
 import type { ImpedanceStep } from './types.js';
 import type { SourceAtBoard } from './fault-point.js';
-import { add, cableLoopImpedance, cablePhaseImpedance } from './impedance.js';
+import { add, appendStep, cableLoopImpedance, cablePhaseImpedance } from './impedance.js';
 import { minFaultTemperature } from './fault-point.js';
 import { cableVoltageDrop } from './circuit.js';
 import { supplyState } from './sources.js';
@@ -21,11 +21,6 @@ export interface BoardState {
   buildUpMin: ImpedanceStep[];
   notes: string[];
   defaults: AppliedDefault[];
-}
-
-function extend(steps: ImpedanceStep[], element: string, detail: string, z: { r: number; x: number }): ImpedanceStep[] {
-  const prev = steps.length > 0 ? steps[steps.length - 1]!.total : { r: 0, x: 0 };
-  return [...steps, { element, detail, z, total: add(prev, z) }];
 }
 
 /** Board states in tree order: supply by supply (as listed), depth first, circuits by id. */
@@ -59,8 +54,8 @@ export function propagate(project: Project): BoardState[] {
         source: { zMax: add(board.source.zMax, phase), zLoopMin: add(board.source.zLoopMin, loop) },
         voltageDrop: board.voltageDrop + drop,
         voltageDropUnknownUpstream: board.voltageDropUnknownUpstream || !c.load,
-        buildUpMax: extend(board.buildUpMax, `Circuit ${c.id} cable (phase, 20 °C)`, label, phase),
-        buildUpMin: extend(board.buildUpMin, `Circuit ${c.id} cable (phase + PE, ${theta} °C)`, label, loop),
+        buildUpMax: appendStep(board.buildUpMax, `Circuit ${c.id} cable (phase, 20 °C)`, label, phase),
+        buildUpMin: appendStep(board.buildUpMin, `Circuit ${c.id} cable (phase + PE, ${theta} °C)`, label, loop),
         notes: board.notes,
         defaults: board.defaults,
       });

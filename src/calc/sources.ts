@@ -2,7 +2,7 @@
 
 import type { AppliedDefault, Settings, Supply } from '../model/types.js';
 import type { ImpedanceStep } from './types.js';
-import { ZERO, add, fromMagnitude, networkFeederImpedance, scale, serviceImpedance, transformerImpedance } from './impedance.js';
+import { ZERO, add, appendStep, fromMagnitude, networkFeederImpedance, scale, serviceImpedance, transformerImpedance } from './impedance.js';
 import type { SourceAtBoard } from './fault-point.js';
 import { fmt, sig } from './quantity-text.js';
 
@@ -15,11 +15,7 @@ export interface SupplyState {
 }
 
 function steps(parts: Array<{ element: string; detail: string; z: { r: number; x: number } }>): ImpedanceStep[] {
-  let total = ZERO;
-  return parts.map((p) => {
-    total = add(total, p.z);
-    return { element: p.element, detail: p.detail, z: p.z, total };
-  });
+  return parts.reduce<ImpedanceStep[]>((acc, p) => appendStep(acc, p.element, p.detail, p.z), []);
 }
 
 export function supplyState(supply: Supply, settings: Settings): SupplyState {
