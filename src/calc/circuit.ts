@@ -33,7 +33,6 @@ export interface VoltageDropOutcome {
   own: number; // percent, this cable
   total: number; // percent, upstream + this cable
   limit: number;
-  resistanceTemperature: number; // degC
 }
 
 /** The protective conductor's own adiabatic check, IEC 60364-5-54:2011 543.1.2, beside the four checks. */
@@ -61,10 +60,6 @@ export interface CircuitEvaluation {
 
 export function cableK(cable: Cable): KDerivation {
   return conductorK(cable.conductor, cable.insulation, areaMm2(cable));
-}
-
-export function cableWithstand(cable: Cable, k: number): number {
-  return withstandEnergy(k, areaMm2(cable) * cable.parallel);
 }
 
 /** True where earth-fault disconnection can be judged from the line-PE loop (TN systems). */
@@ -153,7 +148,6 @@ export function evaluateCircuit(c: CircuitCase): CircuitEvaluation {
       own: vd.percent,
       total,
       limit: c.voltageDropLimit,
-      resistanceTemperature: vd.temperature,
     };
   }
 

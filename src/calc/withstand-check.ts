@@ -9,7 +9,6 @@ export type KappaOf = (current: number) => number;
 
 export interface EnergyCheck extends EnergyEvaluation {
   withstand: number;
-  exceeded: boolean;
   /** The largest energy found where a rule applies (the governing case of a failure even where part of
    * the range is undetermined); `letThrough` is null wherever any current of the range is undetermined. */
   largestFound: { current: number; energy: number } | null;
@@ -53,6 +52,5 @@ export function energyOverRange(
     currentMin,
     currentMax,
     withstand,
-    exceeded,
   };
 }
