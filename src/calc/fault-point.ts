@@ -45,16 +45,30 @@ export function minFaultTemperature(settings: Settings, cable: Cable): number {
 
 const temperatureCache = new WeakMap<Cable, { initialC: number; finalC: number }>();
 
-export function faultAt(settings: Settings, source: SourceAtBoard, cable: Cable, length: number): FaultPoint {
-  // Inlined phase and loop impedances: this runs thousands of times per circuit in the length searches.
+/** This cable's impedance per metre of route: the phase at 20 degC, and the line-PE loop at the minimum-fault temperature. */
+export function impedancePerMetre(settings: Settings, cable: Cable): { phase: Impedance; loop: Impedance } {
   const hot = resistanceAt(1, minFaultTemperature(settings, cable));
   const pe = cable.protectiveConductor;
-  const xPhase = (cable.reactance * length) / cable.parallel;
-  const zMax = { r: source.zMax.r + (cable.resistance20 * length) / cable.parallel, x: source.zMax.x + xPhase };
-  const zLoop = {
-    r: source.zLoopMin.r + hot * length * (cable.resistance20 / cable.parallel + pe.resistance20 / pe.parallel),
-    x: source.zLoopMin.x + xPhase + (cable.reactance * length) / pe.parallel,
+  const x = cable.reactance / cable.parallel;
+  return {
+    phase: { r: cable.resistance20 / cable.parallel, x },
+    loop: { r: hot * (cable.resistance20 / cable.parallel + pe.resistance20 / pe.parallel), x: x + cable.reactance / pe.parallel },
   };
+}
+
+/** The length l >= 0 at which |z0 + l z1| = z; null where even zero length gives more than z. */
+function lengthForImpedance(z0: Impedance, z1: Impedance, z: number): number | null {
+  const a = z1.r * z1.r + z1.x * z1.x;
+  const b = 2 * (z0.r * z1.r + z0.x * z1.x);
+  const k = z0.r * z0.r + z0.x * z0.x - z * z;
+  if (a <= 0 || k > 0) return null;
+  return Math.max(0, (-b + Math.sqrt(b * b - 4 * a * k)) / (2 * a));
+}
+
+export function faultAt(settings: Settings, source: SourceAtBoard, cable: Cable, length: number): FaultPoint {
+  const { phase, loop } = impedancePerMetre(settings, cable);
+  const zMax = { r: source.zMax.r + phase.r * length, x: source.zMax.x + phase.x * length };
+  const zLoop = { r: source.zLoopMin.r + loop.r * length, x: source.zLoopMin.x + loop.x * length };
   const ik3max = threePhaseCurrent(settings.voltageFactorMax, settings.systemVoltage, zMax);
   const kappa3 = peakFactor(zMax);
   return {
@@ -76,23 +90,12 @@ export function faultAt(settings: Settings, source: SourceAtBoard, cable: Cable,
  * origin's, a smaller one (reached by earth faults only) the far end's.
  */
 export function kappaAlongCable(settings: Settings, source: SourceAtBoard, cable: Cable, length: number): (current: number) => number {
-  const rs = source.zMax.r;
-  const xs = source.zMax.x;
-  const r1 = cable.resistance20 / cable.parallel;
-  const x1 = cable.reactance / cable.parallel;
-  const a = r1 * r1 + x1 * x1;
-  const b = 2 * (rs * r1 + xs * x1);
+  const z0 = source.zMax;
+  const { phase } = impedancePerMetre(settings, cable);
   const cu = (settings.voltageFactorMax * settings.systemVoltage) / Math.sqrt(3);
   return (current: number) => {
-    const z = cu / current; // |Z_k| that gives this current
-    let l = 0;
-    if (a > 0) {
-      const c = rs * rs + xs * xs - z * z;
-      const disc = b * b - 4 * a * c;
-      l = disc > 0 ? (-b + Math.sqrt(disc)) / (2 * a) : 0;
-    }
-    l = Math.min(Math.max(l, 0), length);
-    return peakFactor({ r: rs + l * r1, x: xs + l * x1 });
+    const l = Math.min(lengthForImpedance(z0, phase, cu / current) ?? 0, length);
+    return peakFactor({ r: z0.r + l * phase.r, x: z0.x + l * phase.x });
   };
 }
 
@@ -108,28 +111,9 @@ export function lengthAtCurrent(
   kind: 'max' | 'loop',
   limit: number,
 ): number | null {
-  const pe = cable.protectiveConductor;
-  let z0: Impedance;
-  let r1: number;
-  let x1: number;
-  let c: number;
-  if (kind === 'max') {
-    z0 = source.zMax;
-    r1 = cable.resistance20 / cable.parallel;
-    x1 = cable.reactance / cable.parallel;
-    c = settings.voltageFactorMax;
-  } else {
-    const hot = resistanceAt(1, minFaultTemperature(settings, cable));
-    z0 = source.zLoopMin;
-    r1 = hot * (cable.resistance20 / cable.parallel + pe.resistance20 / pe.parallel);
-    x1 = cable.reactance / cable.parallel + cable.reactance / pe.parallel;
-    c = settings.voltageFactorMin;
-  }
-  const z = (c * settings.systemVoltage) / (Math.sqrt(3) * current);
-  const a = r1 * r1 + x1 * x1;
-  const b = 2 * (z0.r * r1 + z0.x * x1);
-  const k = z0.r * z0.r + z0.x * z0.x - z * z;
-  if (a <= 0 || k > 0) return null; // the current exceeds the origin's
-  const l = (-b + Math.sqrt(b * b - 4 * a * k)) / (2 * a);
-  return l >= 0 && l <= limit ? l : null;
+  const perMetre = impedancePerMetre(settings, cable);
+  const max = kind === 'max';
+  const c = max ? settings.voltageFactorMax : settings.voltageFactorMin;
+  const l = lengthForImpedance(max ? source.zMax : source.zLoopMin, max ? perMetre.phase : perMetre.loop, (c * settings.systemVoltage) / (Math.sqrt(3) * current));
+  return l !== null && l <= limit ? l : null;
 }
