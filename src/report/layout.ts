@@ -36,16 +36,21 @@ export const styles: StyleDictionary = {
   value: { fontSize: 7.8, bold: true },
 };
 
-export const gridLayout: TableLayout = {
-  hLineWidth: () => 0.4,
-  vLineWidth: () => 0.4,
-  hLineColor: () => COLOURS.rule,
-  vLineColor: () => COLOURS.rule,
-  paddingLeft: () => 3,
-  paddingRight: () => 3,
-  paddingTop: () => 1.6,
-  paddingBottom: () => 1.6,
-};
+/** A table ruled all round in one width and colour, 3 pt either side of the text, `paddingY` above and below. */
+export function ruledLayout(lineWidth: number, colour: string, paddingY: number) {
+  return {
+    hLineWidth: () => lineWidth,
+    vLineWidth: () => lineWidth,
+    hLineColor: () => colour,
+    vLineColor: () => colour,
+    paddingLeft: () => 3,
+    paddingRight: () => 3,
+    paddingTop: () => paddingY,
+    paddingBottom: () => paddingY,
+  };
+}
+
+export const gridLayout: TableLayout = ruledLayout(0.4, COLOURS.rule, 1.6);
 
 /** Markup text to a pdfmake text value. */
 export function t(markup: string, literals: readonly string[] = []): Run[] {
@@ -204,16 +209,7 @@ export function field(label: string, value: Run[] | string, opts: { size?: numbe
   };
 }
 
-const titleLayout = {
-  hLineWidth: () => 0.6,
-  vLineWidth: () => 0.6,
-  hLineColor: () => COLOURS.accent,
-  vLineColor: () => COLOURS.accent,
-  paddingLeft: () => 3,
-  paddingRight: () => 3,
-  paddingTop: () => 1.5,
-  paddingBottom: () => 1.5,
-};
+const titleLayout = ruledLayout(0.6, COLOURS.accent, 1.5);
 
 export interface TitleBlock {
   projectName: string;

@@ -15,6 +15,7 @@ import {
   breakable,
   dataTable,
   packageDocument,
+  ruledLayout,
   pageText,
   projectDate,
   signoffBlocks,
@@ -277,16 +278,7 @@ function inputTable(title: string, rows: Row[], items: AssumptionItem[], supply:
   return { table: { widths: [92, '*'], body, dontBreakRows: true, headerRows: 1 }, layout: { ...gridLayoutLite }, margin: [0, 0, 0, 6] };
 }
 
-const gridLayoutLite = {
-  hLineWidth: () => 0.4,
-  vLineWidth: () => 0.4,
-  hLineColor: () => COLOURS.rule,
-  vLineColor: () => COLOURS.rule,
-  paddingLeft: () => 3,
-  paddingRight: () => 3,
-  paddingTop: () => 1.4,
-  paddingBottom: () => 1.4,
-};
+const gridLayoutLite = ruledLayout(0.4, COLOURS.rule, 1.4);
 
 function impedanceTable(steps: ImpedanceStep[], labels: Record<string, string>, totalLabel: string): Content {
   const n = (ohm: number): string => fmt.milliohmNumber(ohm);
