@@ -2,7 +2,7 @@
 
 import type { ChartSeries } from './types.js';
 import { operatingPoint, responseBreakpoints } from './device.js';
-import { type CircuitCase, type CircuitEvaluation, farEndEnergy } from './circuit.js';
+import { type CircuitCase, type CircuitEvaluation, energyAtPoint } from './circuit.js';
 import { faultAt, kappaAlongCable } from './fault-point.js';
 import { withstandTime } from './adiabatic.js';
 import { LENGTH_SEARCH_LIMIT } from './length-search.js';
@@ -50,7 +50,7 @@ export function chartSeries(
   for (let i = 0; i <= LENGTH_SAMPLES; i++) {
     const l = (maxL * i) / LENGTH_SAMPLES;
     const p = faultAt(c.settings, c.source, c.cable, l);
-    const e = farEndEnergy(c, l, ev.withstand);
+    const e = energyAtPoint(c, p, ev.withstand);
     const op = operatingPoint(c.device, p.ik1min, p.kappa1);
     length.push({ length: l, ik3max: p.ik3max, ik1min: p.ik1min, letThrough: e.letThrough, operatingTime: op.time });
   }

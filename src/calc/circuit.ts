@@ -69,7 +69,11 @@ export function earthFaultLoopModelled(settings: Settings): boolean {
 
 /** Energy check on faults at one point only (the far end of a cable of `length`). */
 export function farEndEnergy(c: CircuitCase, length: number, withstand: number): EnergyCheck {
-  const end = faultAt(c.settings, c.source, c.cable, length);
+  return energyAtPoint(c, faultAt(c.settings, c.source, c.cable, length), withstand);
+}
+
+/** Energy check on the faults at one fault point already computed. */
+export function energyAtPoint(c: CircuitCase, end: FaultPoint, withstand: number): EnergyCheck {
   const lo = Math.min(end.ik1min, end.ik3max);
   const hi = Math.max(end.ik1min, end.ik3max);
   return energyOverRange(c.device, lo, hi, () => end.kappa3, withstand); // every fault at the far end
