@@ -2,7 +2,7 @@
 // filesystem), then the folder is swapped into place with renames. Until the swap OUT is not
 // touched; if the swap fails the old OUT is put back. A failed build leaves OUT as it was.
 
-import { chmod, mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { chmod, copyFile, link, mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 
 /** OUT cannot be used (not a folder, or holding files a build did not write). */
@@ -15,11 +15,21 @@ export class OutputDirError extends Error {
 
 /** Names a previous build may have left in OUT; anything else means OUT is not ours to replace. */
 const OWN_FILE = /^(?:[A-Za-z0-9._-]+\.pdf|results\.json)$/;
+/** The build cache's folder in OUT (src/report/cache.ts), and the names it holds. */
+export const CACHE_FOLDER = '.faultsheet-cache';
+const CACHE_FILE = /^manifest\.json$/;
 
 export interface Staging {
   readonly dir: string;
   readonly outDir: string;
+  /** Write a new file `name` (a plain file name, or `.faultsheet-cache/<name>`). */
   write(name: string, data: Uint8Array | string): Promise<void>;
+  /** Take `from` (a file of the previous OUT) as `name`, by a hard link where the filesystem allows. */
+  adopt(name: string, from: string): Promise<void>;
+  /** The path of a new file `name`, for a writer that streams into it itself. */
+  pathOf(name: string): string;
+  /** Size and modification time of a file already staged. */
+  stat(name: string): Promise<import('node:fs').Stats>;
   /** Swap the staged folder into OUT. */
   commit(): Promise<void>;
   /** Remove the staged folder; OUT is untouched. */
@@ -44,8 +54,14 @@ export async function openStaging(outDir: string): Promise<Staging> {
   if (st && !st.isDirectory()) throw new OutputDirError(`${outDir}: exists and is not a folder`);
   if (st) {
     const foreign: string[] = [];
-    for (const entry of (await readdir(out, { withFileTypes: true })).sort((a, b) => (a.name < b.name ? -1 : 1)))
+    for (const entry of (await readdir(out, { withFileTypes: true })).sort((a, b) => (a.name < b.name ? -1 : 1))) {
+      if (entry.isDirectory() && entry.name === CACHE_FOLDER) {
+        for (const inner of await readdir(path.join(out, CACHE_FOLDER), { withFileTypes: true }))
+          if (!inner.isFile() || !CACHE_FILE.test(inner.name)) foreign.push(`${CACHE_FOLDER}/${inner.name}${inner.isDirectory() ? '/' : ''}`);
+        continue;
+      }
       if (!entry.isFile() || !OWN_FILE.test(entry.name)) foreign.push(entry.name + (entry.isDirectory() ? '/' : ''));
+    }
     if (foreign.length)
       throw new OutputDirError(
         `${outDir}: holds ${foreign.length === 1 ? 'an entry' : 'entries'} a build did not write (${foreign.slice(0, 5).join(', ')}${foreign.length > 5 ? ', …' : ''}); a build replaces the whole folder, so choose an empty folder or a previous output folder`,
@@ -55,13 +71,37 @@ export async function openStaging(outDir: string): Promise<Staging> {
   const dir = await mkdtemp(path.join(parent, `.tmp-${base}-`));
   await chmod(dir, 0o755); // mkdtemp makes it private; OUT is an ordinary folder
   let done = false;
+  let cacheMade = false;
+  const target = (name: string): string => {
+    if (done) throw new Error('internal error: staging already committed or discarded');
+    const inCache = name.startsWith(`${CACHE_FOLDER}/`) && CACHE_FILE.test(name.slice(CACHE_FOLDER.length + 1));
+    if (!inCache && (name !== path.basename(name) || !OWN_FILE.test(name))) throw new Error(`internal error: bad output name ${name}`);
+    return path.join(dir, name);
+  };
   return {
     dir,
     outDir: out,
     async write(name, data) {
-      if (done) throw new Error('internal error: staging already committed or discarded');
-      if (name !== path.basename(name) || name === '.' || name === '..') throw new Error(`internal error: bad output name ${name}`);
-      await writeFile(path.join(dir, name), data, { flag: 'wx' });
+      const file = target(name);
+      if (name.startsWith(`${CACHE_FOLDER}/`) && !cacheMade) {
+        await mkdir(path.join(dir, CACHE_FOLDER), { mode: 0o755 });
+        cacheMade = true;
+      }
+      await writeFile(file, data, { flag: 'wx' });
+    },
+    async adopt(name, from) {
+      const file = target(name);
+      try {
+        await link(from, file);
+      } catch {
+        await copyFile(from, file, 1 /* COPYFILE_EXCL */);
+      }
+    },
+    pathOf(name) {
+      return target(name);
+    },
+    stat(name) {
+      return stat(target(name));
     },
     async commit() {
       if (done) throw new Error('internal error: staging already committed or discarded');

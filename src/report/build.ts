@@ -1,14 +1,17 @@
-// `faultsheet build`: plan every output name, render the sheets, the summary and the dossier into a
-// staging folder beside OUT, write results.json, then swap the folder into place (src/io/write.ts).
-// Any failure before the swap leaves OUT exactly as it was.
+// `faultsheet build`: plan every output name, render the sheets that changed since the last build
+// (the others are taken over from OUT, see cache.ts), then the summary and the dossier, into a
+// staging folder beside OUT; write results.json and the cache manifest, then swap the folder into
+// place (src/io/write.ts). Any failure or interruption before the swap leaves OUT exactly as it was.
 
 import path from 'node:path';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { openStaging } from '../io/write.js';
-import { mergeDossier, pageCount } from './dossier.js';
-import { childCount, renderSheetsInChildren } from './parallel.js';
+import { CACHE_DIR, MANIFEST_FILE, emptyManifest, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
+import { writeDossier } from './dossier.js';
+import { pdfPageCount } from './pdf-file.js';
 import { DOSSIER_FILE, RESULTS_FILE, SUMMARY_FILE, planOutputs } from './plan.js';
+import { renderSheetsInPool, workerCount } from './pool.js';
 import { defaultRenderer, type Renderer } from './render.js';
 import { projectDate } from './sheet.js';
 import { projectTemplates, renderSheet } from './sheets.js';
@@ -21,82 +24,126 @@ export { TemplateError } from './templates.js';
 export { projectTemplates, renderSheet } from './sheets.js';
 
 export interface BuildOptions {
+  /** Called after each sheet rendered (not for sheets taken over from the previous build). */
   onProgress?: (done: number, total: number, circuitId: string) => void;
-  /** Sheet processes to render with; default: as many as the machine has cores (up to 4), 0 or 1: none. */
+  /** Called once the build knows how many sheets it renders and how many it takes over. */
+  onPlan?: (render: number, kept: number) => void;
+  /** Worker threads to render with; default: one per core. 0 or 1: render in the main thread. */
   jobs?: number;
-  /** For tests: a renderer to use instead of the shared one (always renders in process). */
+  /** Render every sheet, ignoring what the previous build left in OUT. */
+  force?: boolean;
+  /** Aborting stops the build; OUT is left as it was. */
+  signal?: AbortSignal;
+  /** For tests: a renderer to use instead of the shared one (always renders in the main thread). */
   renderer?: Renderer;
 }
 
-interface Sheet {
-  bytes: Buffer;
-  title: string;
-  pages: number;
-  file: string;
+export interface BuildReport {
+  files: string[]; // OUT joined with each name
+  rendered: number;
+  kept: number;
 }
 
-/** Write the dossier of `project` into `outDir`; returns the paths written (OUT joined with each name). */
-export async function buildDossier(
-  project: Project,
-  result: ProjectResult,
-  resultsJson: unknown,
-  outDir: string,
-  opts: BuildOptions = {},
-): Promise<{ files: string[] }> {
+/** Write the dossier of `project` into `outDir`. */
+export async function buildDossier(project: Project, result: ProjectResult, resultsJson: unknown, outDir: string, opts: BuildOptions = {}): Promise<BuildReport> {
   const plan = planOutputs(project, result); // collisions fail here, before anything is written
   const templates = projectTemplates(project);
   templates.check(); // a project template that does not compile fails here, before anything is written
-  const renderer = opts.renderer ?? defaultRenderer();
+  const signal = opts.signal;
+  signal?.throwIfAborted();
   const staging = await openStaging(outDir);
   try {
     const total = result.circuits.length;
-    // Only the bytes are kept: a hundred parsed documents held in memory slow every later sheet.
-    const sheets: Sheet[] = new Array(total);
+    const projectPrint = projectFingerprint(project, templates);
+    const previous = opts.force ? null : readManifest(staging.outDir);
+    const manifest: Manifest = emptyManifest();
+    const pages: number[] = new Array(total);
+    const toRender: number[] = [];
+    const keys = result.circuits.map((cr, i) => sheetKey(projectPrint, project, cr, i, total));
+    for (let i = 0; i < total; i++) {
+      const file = plan.sheets[i].file;
+      const kept = reusable(staging.outDir, previous, file, keys[i]);
+      if (!kept) {
+        toRender.push(i);
+        continue;
+      }
+      await staging.adopt(file, path.join(staging.outDir, file));
+      pages[i] = kept.pages;
+      manifest.sheets[file] = kept;
+    }
+    opts.onPlan?.(toRender.length, total - toRender.length);
+    signal?.throwIfAborted();
+
     let done = 0;
-    const accept = async (i: number, bytes: Buffer): Promise<void> => {
-      const cr = result.circuits[i];
-      await staging.write(plan.sheets[i].file, bytes);
-      sheets[i] = { bytes, title: cr.description ? `${unmark(cr.id)} — ${unmark(cr.description)}` : unmark(cr.id), pages: await pageCount(bytes), file: plan.sheets[i].file };
-      opts.onProgress?.(++done, total, cr.id);
+    const accept = async (i: number, bytes: Uint8Array, pageCount: number): Promise<void> => {
+      signal?.throwIfAborted();
+      const file = plan.sheets[i].file;
+      await staging.write(file, bytes);
+      const st = await staging.stat(file);
+      pages[i] = pageCount;
+      manifest.sheets[file] = { key: keys[i], pages: pageCount, size: st.size, mtimeMs: st.mtimeMs };
+      opts.onProgress?.(++done, toRender.length, result.circuits[i].id);
     };
-    const children = opts.renderer ? 0 : childCount(total, opts.jobs);
-    if (children > 0) await renderSheetsInChildren(project, result, templates, children, accept);
-    else for (let i = 0; i < total; i++) await accept(i, await renderSheet(project, result, i, templates, renderer));
+    const threads = opts.renderer ? 0 : workerCount(toRender.length, opts.jobs);
+    if (threads > 0) await renderSheetsInPool(project, result, toRender, templates, threads, (s) => accept(s.index, s.bytes, s.pages), signal);
+    else {
+      const renderer = opts.renderer ?? defaultRenderer();
+      for (const i of toRender) {
+        const bytes = await renderSheet(project, result, i, templates, renderer);
+        await accept(i, bytes, pdfPageCount(bytes));
+      }
+    }
 
     // The summary's index gives each sheet's first page in the dossier, which depends on the
-    // summary's own length: lay it out until the page count it assumed is the one it has.
+    // summary's own length: lay it out until the page count it assumed is the one it has (the last
+    // build's count is the first guess, so an unchanged length is laid out once).
+    const renderer = opts.renderer ?? defaultRenderer();
     const labels = templates.labels('summary/labels.hbs');
-    let summaryPages = 1;
-    let summary: Buffer | null = null;
+    let summaryPages = previous?.summaryPages && previous.summaryPages >= 1 ? previous.summaryPages : 1;
+    let summary: { bytes: Buffer; pages: number } | null = null;
     for (let attempt = 0; attempt < 4 && !summary; attempt++) {
+      signal?.throwIfAborted();
       const firstPage = new Map<string, number>();
       let next = summaryPages + 1;
       result.circuits.forEach((c, i) => {
         firstPage.set(c.id, next);
-        next += sheets[i].pages;
+        next += pages[i];
       });
       const bytes = await renderer.pdf(summaryDocument(project, result, { templates, dossierPages: firstPage }));
-      const pages = await pageCount(bytes);
-      if (pages === summaryPages) summary = bytes;
-      else summaryPages = pages;
+      const got = pdfPageCount(bytes);
+      if (got === summaryPages) summary = { bytes, pages: got };
+      else summaryPages = got;
     }
     if (!summary) throw new Error('internal error: the summary page count does not settle');
-    await staging.write(SUMMARY_FILE, summary);
+    await staging.write(SUMMARY_FILE, summary.bytes);
+    manifest.summaryPages = summary.pages;
+    signal?.throwIfAborted();
 
-    const dossier = await mergeDossier({ bytes: summary, title: labels['dossier.summary'] }, sheets, {
-      title: `${unmark(project.meta.name)} — ${labels['cover.kicker']}`,
-      subject: labels['info.subject'],
-      date: projectDate(project.meta.date),
-      summaryTitle: labels['dossier.summary'],
-      sheetsTitle: labels['dossier.sheets'],
-      pageLabel: labels['dossier.page'],
-    });
-    await staging.write(DOSSIER_FILE, dossier);
+    writeDossier(
+      staging.pathOf(DOSSIER_FILE),
+      { path: staging.pathOf(SUMMARY_FILE), pages: summary.pages, title: labels['dossier.summary'] },
+      result.circuits.map((cr, i) => ({
+        path: staging.pathOf(plan.sheets[i].file),
+        pages: pages[i],
+        title: cr.description ? `${unmark(cr.id)} — ${unmark(cr.description)}` : unmark(cr.id),
+        file: plan.sheets[i].file,
+      })),
+      {
+        title: `${unmark(project.meta.name)} — ${labels['cover.kicker']}`,
+        subject: labels['info.subject'],
+        date: projectDate(project.meta.date),
+        summaryTitle: labels['dossier.summary'],
+        sheetsTitle: labels['dossier.sheets'],
+        pageLabel: labels['dossier.page'],
+      },
+    );
     await staging.write(RESULTS_FILE, JSON.stringify(resultsJson, null, 2) + '\n');
+    await staging.write(`${CACHE_DIR}/${MANIFEST_FILE}`, JSON.stringify(manifest) + '\n');
+    signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
     await staging.commit();
+    return { files: plan.files.map((f) => path.join(outDir, f)), rendered: toRender.length, kept: total - toRender.length };
   } catch (err) {
     await staging.discard();
     throw err;
   }
-  return { files: plan.files.map((f) => path.join(outDir, f)) };
 }

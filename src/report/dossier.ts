@@ -1,13 +1,26 @@
-// The dossier: the summary and every sheet merged page for page (the sheets are laid out once),
-// with a PDF outline (bookmarks): the summary, then one entry per circuit. pdf-lib writes no clock
-// and no random id here; dates come from the project, the object layout is fixed.
+// The dossier: the summary and every sheet joined page for page into one PDF, with a PDF outline
+// (bookmarks: the summary, then one entry per circuit), the summary's links to sheet files turned
+// into jumps to the sheets' first pages, and the dossier's own page number under each page.
+//
+// The parts are read one at a time from the files already written and their objects are copied,
+// renumbered, straight into the output file (src/report/pdf-file.ts): nothing is laid out again and
+// only one part is in memory at a time, whatever the size of the project. The bytes depend only on
+// the parts and the metadata (no clock, no random id), so two builds of one project are identical.
 
-import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFNumber, PDFRef, PDFString, StandardFonts, rgb } from 'pdf-lib';
+import { closeSync, openSync, readFileSync, writeSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { StandardFontEmbedder, StandardFonts } from 'pdf-lib';
+import { dictDelete, dictGet, dictSet, literalText, readPdf, serialize, textString, type PdfValue } from './pdf-file.js';
 
 export interface DossierPart {
-  bytes: Uint8Array;
-  title: string; // outline entry, plain text
-  file?: string; // the sheet's own file name: links to it from the summary become jumps inside the dossier
+  /** The part's PDF file (a file of this build). */
+  path: string;
+  /** Its pages (known from rendering, so the page numbers can be stamped in one pass). */
+  pages: number;
+  /** Outline entry, plain text. */
+  title: string;
+  /** The sheet's own file name: links to it from the summary become jumps inside the dossier. */
+  file?: string;
 }
 
 export interface DossierMeta {
@@ -16,128 +29,291 @@ export interface DossierMeta {
   date: Date;
   summaryTitle: string;
   sheetsTitle: string;
-  pageLabel?: string; // "Dossier page {n} of {total}", stamped under each page's footer
+  /** "Dossier page {n} of {total}", stamped under each page's footer. */
+  pageLabel?: string;
 }
 
-/** Pages of a PDF we wrote. */
-export async function pageCount(bytes: Uint8Array): Promise<number> {
-  return (await PDFDocument.load(bytes, { updateMetadata: false })).getPageCount();
-}
+/** Buffered sequential writes to a file, tracking the offset of each object for the xref table. */
+class PdfSink {
+  private fd: number;
+  private chunks: Buffer[] = [];
+  private buffered = 0;
+  offset = 0;
+  readonly offsets: number[] = [0]; // by object number; 0 is the free head
+  private nextNum = 1;
 
-interface OutlineNode {
-  title: string;
-  page: PDFRef;
-  children: OutlineNode[];
-}
-
-/** Merge the summary and the sheets into one PDF with bookmarks. */
-export async function mergeDossier(summary: DossierPart, sheets: DossierPart[], meta: DossierMeta): Promise<Uint8Array> {
-  const out = await PDFDocument.create({ updateMetadata: false });
-  const firstPages: PDFRef[] = [];
-  for (const part of [summary, ...sheets]) {
-    const doc = await PDFDocument.load(part.bytes, { updateMetadata: false });
-    const pages = await out.copyPages(doc, doc.getPageIndices());
-    pages.forEach((p) => out.addPage(p));
-    firstPages.push(pages[0].ref);
+  constructor(path: string) {
+    this.fd = openSync(path, 'wx');
   }
-  if (meta.pageLabel) await stampPageNumbers(out, meta.pageLabel);
-  const summaryPages = (await PDFDocument.load(summary.bytes, { updateMetadata: false })).getPageCount();
-  const targets = new Map<string, PDFRef>();
-  sheets.forEach((s, i) => {
-    if (s.file) targets.set(s.file, firstPages[i + 1]!);
-  });
-  linkWithinDossier(out, summaryPages, targets);
-  writeOutline(out, [
-    { title: meta.summaryTitle, page: firstPages[0], children: [] },
-    ...(sheets.length
-      ? [{ title: meta.sheetsTitle, page: firstPages[1], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[i + 1], children: [] })) }]
-      : []),
-  ]);
-  out.setTitle(meta.title);
-  out.setSubject(meta.subject);
-  out.setCreator('faultsheet');
-  out.setProducer('faultsheet');
-  out.setCreationDate(meta.date);
-  out.setModificationDate(meta.date);
-  return out.save({ useObjectStreams: false, addDefaultPage: false, updateFieldAppearances: false });
-}
 
-/**
- * The dossier's own page number under each page's footer, so that the index's page numbers can be
- * followed in print. Helvetica is one of the standard fonts of PDF (32000-1:2008 9.6.2.2): nothing is
- * embedded, and the bytes stay the same from build to build.
- */
-async function stampPageNumbers(doc: PDFDocument, pattern: string): Promise<void> {
-  const font = await doc.embedFont(StandardFonts.Helvetica);
-  const pages = doc.getPages();
-  const size = 6.5;
-  pages.forEach((page, i) => {
-    const text = pattern.replace('{n}', String(i + 1)).replace('{total}', String(pages.length));
-    const { width } = page.getSize();
-    page.drawText(text, { x: (width - font.widthOfTextAtSize(text, size)) / 2, y: 14, size, font, color: rgb(0.45, 0.5, 0.56) });
-  });
-}
+  allocate(): number {
+    return this.nextNum++;
+  }
 
-/**
- * The summary links each circuit to its sheet's file (a URI action, PDF 32000-1:2008 12.6.4.7); inside
- * the dossier the sheet is a page away, so each such link becomes a destination on that page (12.3.2).
- */
-function linkWithinDossier(doc: PDFDocument, summaryPages: number, targets: Map<string, PDFRef>): void {
-  for (const page of doc.getPages().slice(0, summaryPages)) {
-    const annots = page.node.lookupMaybe(PDFName.of('Annots'), PDFArray);
-    if (!annots) continue;
-    for (let i = 0; i < annots.size(); i++) {
-      const annot = annots.lookupMaybe(i, PDFDict);
-      const action = annot?.lookupMaybe(PDFName.of('A'), PDFDict);
-      const uri = action?.lookupMaybe(PDFName.of('URI'), PDFString, PDFHexString);
-      const target = uri ? targets.get(uri.decodeText()) : undefined;
-      if (!annot || !target) continue;
-      const dest = PDFArray.withContext(doc.context);
-      dest.push(target);
-      dest.push(PDFName.of('Fit'));
-      annot.delete(PDFName.of('A'));
-      annot.set(PDFName.of('Dest'), dest);
+  get size(): number {
+    return this.nextNum;
+  }
+
+  write(data: string | Uint8Array): void {
+    const buf = typeof data === 'string' ? Buffer.from(data, 'latin1') : Buffer.from(data.buffer, data.byteOffset, data.byteLength);
+    this.chunks.push(buf);
+    this.buffered += buf.length;
+    this.offset += buf.length;
+    if (this.buffered >= 1 << 20) this.flush();
+  }
+
+  object(num: number, body: string, stream?: Uint8Array): void {
+    this.offsets[num] = this.offset;
+    this.write(`${num} 0 obj\n${body}\n`);
+    if (stream) {
+      this.write(stream);
+      this.write('\n');
+    }
+    this.write('endobj\n');
+  }
+
+  flush(): void {
+    if (!this.buffered) return;
+    const all = Buffer.concat(this.chunks, this.buffered);
+    let done = 0;
+    while (done < all.length) done += writeSync(this.fd, all, done);
+    this.chunks = [];
+    this.buffered = 0;
+  }
+
+  close(): void {
+    try {
+      this.flush();
+    } finally {
+      closeSync(this.fd);
     }
   }
 }
 
-/** Write /Outlines into the catalog (PDF 32000-1:2008, 12.3.3), every level open. */
-function writeOutline(doc: PDFDocument, nodes: OutlineNode[]): void {
-  const ctx = doc.context;
-  const rootRef = ctx.nextRef();
-  const build = (items: OutlineNode[], parent: PDFRef): { first: PDFRef; last: PDFRef; count: number } => {
-    const refs = items.map(() => ctx.nextRef());
+const atom = (text: string): PdfValue => ({ k: 'atom', text });
+const ref = (num: number): PdfValue => ({ k: 'ref', num });
+const same = (n: number): number => n;
+
+/** PDF date string (7.9.4) of a date, in UTC. */
+function pdfDate(d: Date): string {
+  const p = (n: number, w = 2): string => String(n).padStart(w, '0');
+  return `(D:${p(d.getUTCFullYear(), 4)}${p(d.getUTCMonth() + 1)}${p(d.getUTCDate())}${p(d.getUTCHours())}${p(d.getUTCMinutes())}${p(d.getUTCSeconds())}Z)`;
+}
+
+/** Characters outside WinAnsi (the standard font's encoding) print as "?". */
+function winAnsiSafe(text: string, font: StandardFontEmbedder): string {
+  return [...text].map((ch) => (font.encoding.canEncodeUnicodeCodePoint(ch.codePointAt(0)!) ? ch : '?')).join('');
+}
+
+/**
+ * Write the dossier to `outPath` (a new file): the summary's pages, then each sheet's, in order.
+ * Returns the number of pages written.
+ */
+export function writeDossier(outPath: string, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta): number {
+  const sink = new PdfSink(outPath);
+  try {
+    return writeParts(sink, summary, sheets, meta);
+  } finally {
+    sink.close();
+  }
+}
+
+function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta): number {
+  const parts = [summary, ...sheets];
+  const totalPages = parts.reduce((n, p) => n + p.pages, 0);
+  sink.write('%PDF-1.7\n%\xe2\xe3\xcf\xd3\n');
+
+  const catalogNum = sink.allocate();
+  const pagesNum = sink.allocate();
+  const outlinesNum = sink.allocate();
+  const infoNum = sink.allocate();
+  const stamp = meta.pageLabel ? StandardFontEmbedder.for(StandardFonts.Helvetica as unknown as Parameters<typeof StandardFontEmbedder.for>[0]) : null;
+  let fontNum = 0;
+  let saveNum = 0;
+  let restoreNum = 0;
+  if (stamp) {
+    // Helvetica is one of the standard fonts of PDF (32000-1:2008 9.6.2.2): nothing is embedded.
+    fontNum = sink.allocate();
+    sink.object(fontNum, '<< /Type /Font /Subtype /Type1 /BaseFont /Helvetica /Encoding /WinAnsiEncoding >>');
+    // Each page's own content is wrapped in q ... Q, so the stamp starts from the default state.
+    saveNum = sink.allocate();
+    sink.object(saveNum, '<< /Length 1 >>\nstream', Buffer.from('q\nendstream', 'latin1'));
+    restoreNum = sink.allocate();
+    sink.object(restoreNum, '<< /Length 1 >>\nstream', Buffer.from('Q\nendstream', 'latin1'));
+  }
+
+  // Sheet file name -> the dossier object of its first page, for the summary's links. Object numbers
+  // are given out part by part, so the first page's number of each part is known before it is read.
+  const kids: number[] = [];
+  const firstPages: number[] = [];
+  const pendingLinks: Array<{ num: number; value: PdfValue; file: string }> = [];
+  let pageNo = 0;
+  for (const part of parts) {
+    const pdf = readPdf(readFileSync(part.path));
+    if (pdf.pages.length !== part.pages) throw new Error(`internal error: ${part.path} has ${pdf.pages.length} pages, ${part.pages} expected`);
+    const skip = new Set<number>([pdf.catalog, ...pdf.pageTreeNodes]);
+    if (pdf.info !== null) skip.add(pdf.info);
+    const map = new Map<number, number>();
+    for (const num of [...pdf.objects.keys()].sort((a, b) => a - b)) if (!skip.has(num)) map.set(num, sink.allocate());
+    const renumber = (n: number): number => {
+      const m = map.get(n);
+      if (m === undefined) throw new Error(`internal error: ${part.path}: object ${n} is referenced but not copied`);
+      return m;
+    };
+    const pageSet = new Set(pdf.pages);
+    const resourcesOfPages = new Set<number>();
+    firstPages.push(renumber(pdf.pages[0]));
+    for (const page of pdf.pages) {
+      const value = pdf.objects.get(page)!.value;
+      kids.push(renumber(page));
+      dictSet(value, '/Parent', atom(`${pagesNum} 0 R`)); // a dossier number already, like the stamp's
+      const res = dictGet(value, '/Resources');
+      if (stamp) {
+        pageNo++;
+        const text = winAnsiSafe(meta.pageLabel!.replace('{n}', String(pageNo)).replace('{total}', String(totalPages)), stamp);
+        const size = 6.5;
+        const width = dictGet(value, '/MediaBox');
+        const pageWidth = width?.k === 'array' && width.items[2]?.k === 'atom' ? Number(width.items[2].text) : 595.28;
+        const x = (pageWidth - stamp.widthOfTextAtSize(text, size)) / 2;
+        const hex = stamp.encodeText(text).toString();
+        const content = `BT\n/FSpg ${size} Tf\n0.45 0.5 0.56 rg\n${x.toFixed(3)} 14 Td\n${hex} Tj\nET`;
+        const stampNum = sink.allocate();
+        sink.object(stampNum, `<< /Length ${Buffer.byteLength(content, 'latin1')} >>\nstream`, Buffer.from(`${content}\nendstream`, 'latin1'));
+        const contents = dictGet(value, '/Contents');
+        const own = contents?.k === 'array' ? contents.items : contents ? [contents] : [];
+        // renumber now: the stamp objects are already dossier numbers
+        dictSet(value, '/Contents', { k: 'array', items: [{ k: 'atom', text: `${saveNum} 0 R` }, ...own.map((c) => (c.k === 'ref' ? atom(`${renumber(c.num)} 0 R`) : c)), atom(`${restoreNum} 0 R`), atom(`${stampNum} 0 R`)] });
+        if (res?.k === 'ref') resourcesOfPages.add(res.num);
+        else if (res?.k === 'dict') addStampFont(res, fontNum);
+        else dictSet(value, '/Resources', { k: 'dict', entries: [['/Font', { k: 'dict', entries: [['/FSpg', atom(`${fontNum} 0 R`)]] }]] });
+      }
+    }
+    // the summary's links to sheet files: annotations whose action is a URI naming a sheet
+    const actionFile = new Map<number, string>();
+    if (part === summary)
+      for (const [num, o] of pdf.objects) {
+        const s = dictGet(o.value, '/S');
+        const file = s?.k === 'atom' && s.text === '/URI' ? literalText(dictGet(o.value, '/URI')) : undefined;
+        if (file !== undefined) actionFile.set(num, file);
+      }
+
+    for (const num of [...map.keys()]) {
+      const o = pdf.objects.get(num)!;
+      if (pageSet.has(num)) {
+        sink.object(map.get(num)!, serialize(o.value, renumber));
+        continue;
+      }
+      if (resourcesOfPages.has(num)) addStampFont(o.value, fontNum);
+      const action = dictGet(o.value, '/A');
+      const file = action?.k === 'ref' ? actionFile.get(action.num) : undefined;
+      if (file !== undefined) {
+        // written once every sheet's first page is known
+        pendingLinks.push({ num: map.get(num)!, value: o.value, file });
+        sink.offsets[map.get(num)!] = -1;
+        continue;
+      }
+      const body = serialize(o.value, renumber);
+      if (o.stream) sink.object(map.get(num)!, body, pdf.bytes.subarray(o.stream.start, o.stream.end));
+      else sink.object(map.get(num)!, body);
+    }
+    if (part === summary) {
+      // the summary's link objects keep the summary's numbering until they are written
+      for (const l of pendingLinks) l.value = reNumbered(l.value, renumber);
+    }
+  }
+
+  const byFile = new Map<string, number>();
+  sheets.forEach((s, i) => {
+    if (s.file) byFile.set(s.file, firstPages[i + 1]);
+  });
+  for (const l of pendingLinks) {
+    const target = byFile.get(l.file);
+    if (target !== undefined) {
+      dictDelete(l.value, '/A');
+      dictSet(l.value, '/Dest', { k: 'array', items: [ref(target), atom('/Fit')] });
+    }
+    sink.object(l.num, serialize(l.value, same));
+  }
+
+  sink.object(pagesNum, `<< /Type /Pages /Kids [${kids.map((k) => `${k} 0 R`).join(' ')}] /Count ${kids.length} >>`);
+  writeOutline(sink, outlinesNum, [
+    { title: meta.summaryTitle, page: firstPages[0], children: [] },
+    ...(sheets.length ? [{ title: meta.sheetsTitle, page: firstPages[1], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[i + 1], children: [] })) }] : []),
+  ]);
+  sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R /Outlines ${outlinesNum} 0 R /PageMode /UseOutlines >>`);
+  const date = pdfDate(meta.date);
+  sink.object(infoNum, `<< /Title ${textString(meta.title)} /Subject ${textString(meta.subject)} /Creator (faultsheet) /Producer (faultsheet) /CreationDate ${date} /ModDate ${date} >>`);
+
+  const id = createHash('md5')
+    .update(JSON.stringify({ meta: { ...meta, date: meta.date.toISOString() }, parts: parts.map((p) => [p.title, p.pages, p.file ?? '']) }))
+    .digest('hex');
+  const xrefAt = sink.offset;
+  let xref = `xref\n0 ${sink.size}\n0000000000 65535 f \n`;
+  for (let n = 1; n < sink.size; n++) {
+    const at = sink.offsets[n];
+    if (at === undefined || at < 0) throw new Error(`internal error: dossier object ${n} was not written`);
+    xref += `${String(at).padStart(10, '0')} 00000 n \n`;
+  }
+  sink.write(xref);
+  sink.write(`trailer\n<< /Size ${sink.size} /Root ${catalogNum} 0 R /Info ${infoNum} 0 R /ID [<${id}> <${id}>] >>\nstartxref\n${xrefAt}\n%%EOF\n`);
+  return totalPages;
+}
+
+/** A copy of `v` with its references already renumbered (kept as atoms, so a later write leaves them). */
+function reNumbered(v: PdfValue, renumber: (n: number) => number): PdfValue {
+  switch (v.k) {
+    case 'ref':
+      return atom(`${renumber(v.num)} 0 R`);
+    case 'atom':
+      return v;
+    case 'array':
+      return { k: 'array', items: v.items.map((x) => reNumbered(x, renumber)) };
+    case 'dict':
+      return { k: 'dict', entries: v.entries.map(([k, x]) => [k, reNumbered(x, renumber)]) };
+  }
+}
+
+/** Add the stamp's font to a resource dictionary (once). */
+function addStampFont(resources: PdfValue, fontNum: number): void {
+  let fonts = dictGet(resources, '/Font');
+  if (fonts?.k === 'ref') throw new Error('internal error: a page font dictionary by reference is not supported');
+  if (fonts?.k !== 'dict') {
+    fonts = { k: 'dict', entries: [] };
+    dictSet(resources, '/Font', fonts);
+  }
+  if (!dictGet(fonts, '/FSpg')) dictSet(fonts, '/FSpg', atom(`${fontNum} 0 R`));
+}
+
+interface OutlineNode {
+  title: string;
+  page: number;
+  children: OutlineNode[];
+}
+
+/** Write /Outlines (PDF 32000-1:2008, 12.3.3), every level open. */
+function writeOutline(sink: PdfSink, rootNum: number, nodes: OutlineNode[]): void {
+  const build = (items: OutlineNode[], parent: number): { first: number; last: number; count: number } => {
+    const nums = items.map(() => sink.allocate());
     let count = 0;
     items.forEach((item, i) => {
-      const dict = ctx.obj({}) as PDFDict;
-      dict.set(PDFName.of('Title'), PDFHexString.fromText(item.title));
-      dict.set(PDFName.of('Parent'), parent);
-      if (i > 0) dict.set(PDFName.of('Prev'), refs[i - 1]);
-      if (i < items.length - 1) dict.set(PDFName.of('Next'), refs[i + 1]);
-      const dest = PDFArray.withContext(ctx);
-      dest.push(item.page);
-      dest.push(PDFName.of('Fit'));
-      dict.set(PDFName.of('Dest'), dest);
+      let body = `<< /Title ${textString(item.title)} /Parent ${parent} 0 R`;
+      if (i > 0) body += ` /Prev ${nums[i - 1]} 0 R`;
+      if (i < items.length - 1) body += ` /Next ${nums[i + 1]} 0 R`;
+      body += ` /Dest [${item.page} 0 R /Fit]`;
       count += 1;
       if (item.children.length) {
-        const sub = build(item.children, refs[i]);
-        dict.set(PDFName.of('First'), sub.first);
-        dict.set(PDFName.of('Last'), sub.last);
-        dict.set(PDFName.of('Count'), PDFNumber.of(sub.count));
+        const sub = build(item.children, nums[i]);
+        body += ` /First ${sub.first} 0 R /Last ${sub.last} 0 R /Count ${sub.count}`;
         count += sub.count;
       }
-      ctx.assign(refs[i], dict);
+      sink.object(nums[i], `${body} >>`);
     });
-    return { first: refs[0], last: refs[refs.length - 1], count };
+    return { first: nums[0], last: nums[nums.length - 1], count };
   };
-  const root = ctx.obj({ Type: 'Outlines' }) as PDFDict;
+  let root = '<< /Type /Outlines';
   if (nodes.length) {
-    const top = build(nodes, rootRef);
-    root.set(PDFName.of('First'), top.first);
-    root.set(PDFName.of('Last'), top.last);
-    root.set(PDFName.of('Count'), PDFNumber.of(top.count));
+    const top = build(nodes, rootNum);
+    root += ` /First ${top.first} 0 R /Last ${top.last} 0 R /Count ${top.count}`;
   }
-  ctx.assign(rootRef, root);
-  doc.catalog.set(PDFName.of('Outlines'), rootRef);
-  doc.catalog.set(PDFName.of('PageMode'), PDFName.of('UseOutlines'));
+  sink.object(rootNum, `${root} >>`);
 }

@@ -1,8 +1,8 @@
 // One circuit's sheet from project + result to PDF bytes, and the build's template set. Shared by
-// the build (in process) and the sheet child processes of a parallel build.
+// the build (in process) and the worker threads of the sheet pool.
 
 import type { Project } from '../model/types.js';
-import type { ProjectResult } from '../calc/types.js';
+import type { CircuitResult, ProjectResult } from '../calc/types.js';
 import { defaultTemplatesDir, readTemplateFiles } from './assets.js';
 import { sheetCharts } from './charts.js';
 import type { Renderer } from './render.js';
@@ -20,7 +20,11 @@ export function projectTemplates(project: Project): TemplateSet {
 
 /** Render one circuit's sheet (result.circuits[index]) to PDF bytes. */
 export async function renderSheet(project: Project, result: ProjectResult, index: number, templates: TemplateSet, renderer: Renderer): Promise<Buffer> {
-  const cr = result.circuits[index];
+  return renderCircuitSheet(project, result.circuits[index], index, result.circuits.length, templates, renderer);
+}
+
+/** Render the sheet of `cr`, sheet `index + 1` of `count`, to PDF bytes. */
+export async function renderCircuitSheet(project: Project, cr: CircuitResult, index: number, count: number, templates: TemplateSet, renderer: Renderer): Promise<Buffer> {
   const circuit = project.circuits.find((c) => c.id === cr.id);
   if (!circuit) throw new Error(`internal error: circuit ${cr.id} is in the result but not in the project`);
   const charts = sheetCharts(cr, circuit, templates.labels('sheet/labels.hbs'));
@@ -29,6 +33,6 @@ export async function renderSheet(project: Project, result: ProjectResult, index
     [SHEET_IMAGES.time]: renderer.chart(charts.time),
     [SHEET_IMAGES.length]: renderer.chart(charts.length),
   };
-  const doc = sheetDocument(project, cr, { templates, index: index + 1, count: result.circuits.length });
+  const doc = sheetDocument(project, cr, { templates, index: index + 1, count });
   return renderer.pdf(doc, images);
 }

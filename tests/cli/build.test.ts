@@ -22,7 +22,7 @@ describe('build', () => {
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/^1 sheet written, 0 checks failed in \d+\.\d s: p\/out\/dossier\.pdf\n$/);
     const out = path.join(tmp.dir, 'p', 'out');
-    expect((await readdir(out)).sort()).toEqual(['MSB-Q1.pdf', 'dossier.pdf', 'results.json', 'summary.pdf']);
+    expect((await readdir(out)).sort()).toEqual(['.faultsheet-cache', 'MSB-Q1.pdf', 'dossier.pdf', 'results.json', 'summary.pdf']);
     const pdf = await readFile(path.join(out, 'dossier.pdf'));
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
 

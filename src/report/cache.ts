@@ -1,0 +1,126 @@
+// The build cache: which sheets in OUT can be kept. A sheet is rendered again only when something it
+// shows has changed: its circuit (input and result, the result carrying every upstream fault level),
+// its device and supply, the project header, settings, defaults, assumptions and sign-off, its
+// position "sheet n of N", the templates, or the tool (its version and the code that draws a sheet).
+//
+// The cache is OUT/.faultsheet-cache/manifest.json: for each sheet file, the key it was rendered for,
+// its page count and the size and modification time the file had. Deleting it is always safe: the
+// next build renders everything. A manifest that cannot be read is treated as missing.
+
+import { createHash } from 'node:crypto';
+import { readFileSync, readdirSync, statSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { createRequire } from 'node:module';
+import type { Project } from '../model/types.js';
+import type { CircuitResult } from '../calc/types.js';
+import type { TemplateSet } from './templates.js';
+
+export const CACHE_DIR = '.faultsheet-cache';
+export const MANIFEST_FILE = 'manifest.json';
+const FORMAT = 1;
+
+export interface CachedSheet {
+  key: string;
+  pages: number;
+  size: number;
+  mtimeMs: number;
+}
+
+export interface Manifest {
+  format: typeof FORMAT;
+  sheets: Record<string, CachedSheet>; // by sheet file name
+  summaryPages: number;
+}
+
+export function emptyManifest(): Manifest {
+  return { format: FORMAT, sheets: {}, summaryPages: 1 };
+}
+
+/** The manifest of a previous build in `outDir`, or null (none, or not readable as one). */
+export function readManifest(outDir: string): Manifest | null {
+  try {
+    const m = JSON.parse(readFileSync(path.join(outDir, CACHE_DIR, MANIFEST_FILE), 'utf8')) as Manifest;
+    if (m?.format !== FORMAT || typeof m.sheets !== 'object' || m.sheets === null) return null;
+    return m;
+  } catch {
+    return null;
+  }
+}
+
+/** The previous build's file for `file` if it is still the one it wrote for `key`. */
+export function reusable(outDir: string, manifest: Manifest | null, file: string, key: string): CachedSheet | null {
+  const entry = manifest && Object.hasOwn(manifest.sheets, file) ? manifest.sheets[file] : undefined;
+  if (!entry || entry.key !== key || !(entry.pages >= 1)) return null;
+  try {
+    const st = statSync(path.join(outDir, file));
+    return st.isFile() && st.size === entry.size && st.mtimeMs === entry.mtimeMs ? entry : null;
+  } catch {
+    return null;
+  }
+}
+
+let toolPrint: string | null = null;
+
+/**
+ * The tool's fingerprint: its version, the versions of the libraries that draw, and the compiled
+ * code of the report itself (so a changed drawing routine renders again even without a new version).
+ */
+function toolFingerprint(): string {
+  if (toolPrint) return toolPrint;
+  const h = createHash('sha256');
+  const here = path.dirname(fileURLToPath(import.meta.url));
+  const require = createRequire(import.meta.url);
+  for (const pkg of ['../../package.json', 'pdfmake/package.json', 'chart.js/package.json', 'canvas/package.json', 'pdf-lib/package.json']) {
+    try {
+      const file = pkg.startsWith('.') ? path.join(here, pkg) : require.resolve(pkg);
+      h.update(`${pkg}:${(JSON.parse(readFileSync(file, 'utf8')) as { version?: string }).version ?? ''}\n`);
+    } catch {
+      h.update(`${pkg}:?\n`);
+    }
+  }
+  for (const name of readdirSync(here).sort()) if (/\.(js|ts)$/.test(name)) h.update(name).update(readFileSync(path.join(here, name)));
+  toolPrint = h.digest('hex');
+  return toolPrint;
+}
+
+/** The fingerprint of a template set (every file, the package's and the project's). */
+export function templatesFingerprint(templates: TemplateSet): string {
+  const h = createHash('sha256');
+  const files = templates.files();
+  for (const [label, set] of [['default', files.defaults], ['project', files.overrides]] as const)
+    for (const name of [...set.keys()].sort()) h.update(`${label}:${name}\n`).update(set.get(name)!).update('\n');
+  h.update(files.overrideRoot);
+  return h.digest('hex');
+}
+
+/** What every sheet of the project shows besides its own circuit. */
+export function projectFingerprint(project: Project, templates: TemplateSet): string {
+  return createHash('sha256')
+    .update(toolFingerprint())
+    .update(templatesFingerprint(templates))
+    .update(stableJson({ meta: project.meta, settings: project.settings, signoff: project.signoff, assumptions: project.assumptions, defaults: project.defaults }))
+    .digest('hex');
+}
+
+/** The key of one sheet: the project's fingerprint and everything of its own circuit. */
+export function sheetKey(projectPrint: string, project: Project, cr: CircuitResult, index: number, count: number): string {
+  const circuit = project.circuits.find((c) => c.id === cr.id);
+  const device = project.devices.find((d) => d.id === cr.device);
+  const supply = project.supplies.find((s) => s.id === cr.supply);
+  return createHash('sha256')
+    .update(projectPrint)
+    .update(stableJson({ index, count, circuit, device, supply, supplyIndex: supply ? project.supplies.indexOf(supply) : -1, result: cr }))
+    .digest('hex');
+}
+
+/** JSON that also writes Maps, Dates and non-finite numbers distinctly (for hashing, not for reading back). */
+function stableJson(v: unknown): string {
+  return JSON.stringify(v, (_k, x: unknown) => {
+    if (x instanceof Map) return { $map: [...x.entries()] };
+    if (x instanceof Set) return { $set: [...x.values()] };
+    if (typeof x === 'number' && !Number.isFinite(x)) return `$num:${String(x)}`;
+    if (typeof x === 'bigint') return `$big:${x.toString()}`;
+    return x;
+  });
+}
