@@ -48,8 +48,8 @@ const MESSAGES = {
   }),
   'yaml-warning': (d) => ({ message: `YAML: ${d.detail ?? ''}` }),
   'yaml-alias-limit': (d) => ({
-    message: `YAML aliases expand more than ${d.limit} times (refused, to protect against runaway expansion)`,
-    expected: 'the values written out, or fewer aliases',
+    message: `YAML ${d.detail ?? 'aliases expand too far'} (refused, to protect against runaway expansion)`,
+    expected: d.detail?.startsWith('collections') ? 'fewer levels of lists and mappings' : 'the values written out, or fewer aliases',
   }),
   'empty-file': (d) => ({ message: 'the file is empty', expected: d.expected }),
   'not-a-mapping': (d) => ({ message: `holds ${d.detail}, not a mapping`, expected: d.expected }),

@@ -9,6 +9,7 @@ import type { CurvePoint, MinFaultTemperature } from './types.js';
 import {
   DIMENSIONS,
   formatNumber,
+  inRange,
   isMultipleOfRatingUnit,
   parseMultipleOfRating,
   parsePercent,
@@ -67,6 +68,7 @@ function quantity(dimension: Dimension, options: { example?: string; sign?: Sign
       if (!parsed.ok) return fail(ctx, parsed.problem, { actual: text, expected, detail: parsed.detail });
       if (sign === 'positive' && !(parsed.value > 0)) return fail(ctx, 'not-positive', { actual: text, expected });
       if (sign === 'non-negative' && parsed.value < 0) return fail(ctx, 'negative', { actual: text, expected });
+      if (!inRange(dimension, parsed.value)) return fail(ctx, 'out-of-range', { actual: text, expected: `${info.noun} from ${info.range.text}, such as ${quote(example)}` });
       return parsed.value;
     })
     .meta({ description: `${info.noun} with its unit, such as ${quote(example)}`, examples: [example], pattern: QUANTITY_PATTERN });
@@ -82,14 +84,23 @@ function percentage(example: string, scale: number) {
       const parsed = parsePercent(text);
       if (!parsed.ok) return fail(ctx, parsed.problem, { actual: text, expected, detail: parsed.detail });
       if (!(parsed.value > 0)) return fail(ctx, 'not-positive', { actual: text, expected });
+      if (parsed.value > 100) return fail(ctx, 'out-of-range', { actual: text, expected: `a percentage greater than 0 and at most 100 %, such as ${quote(example)}` });
       return parsed.value * scale;
     })
     .meta({ description: `a percentage, such as ${quote(example)}`, examples: [example], pattern: PERCENT_PATTERN });
   return withSpec(schema, { expected, unitText: true });
 }
 
-function positiveNumber(expected: string) {
-  return withSpec(z.number().positive(), { expected, unitText: false });
+/** Plain numbers (ratios, factors, curve points): far beyond any real value, short of overflowing the solve. */
+const PLAIN_NUMBER_MAX = 1e12;
+
+function positiveNumber(expected: string, max = PLAIN_NUMBER_MAX) {
+  return withSpec(z.number().positive().max(max), { expected, unitText: false });
+}
+
+/** A ratio that may be zero (X/R = 0: a purely resistive source). */
+function nonNegativeNumber(expected: string, max = PLAIN_NUMBER_MAX) {
+  return withSpec(z.number().min(0).max(max), { expected, unitText: false });
 }
 
 const text = withSpec(z.string().min(1), { expected: 'some text', unitText: false });
@@ -125,13 +136,15 @@ const conductorSize = withSpec(
       const parsed = parseConductorSize(value);
       if (parsed.ok) return parsed.size;
       const expected = 'a conductor size such as "95 mm2", "4/0 AWG" or "250 kcmil"';
-      return fail(ctx, parsed.problem, { actual: value, expected });
+      return fail(ctx, parsed.problem, { actual: value, expected: parsed.problem === 'out-of-range' ? `a conductor size from ${DIMENSIONS.area.range.text}, such as "95 mm2"` : expected });
     })
     .meta({ description: 'a conductor size: "95 mm2", "2 AWG", "4/0 AWG" or "250 kcmil"', examples: ['95 mm2', '4/0 AWG', '250 kcmil'] }),
   { expected: 'a conductor size such as "95 mm2", "4/0 AWG" or "250 kcmil"', unitText: true },
 );
 
-const parallelCount = withSpec(z.number().int().min(1), { expected: 'a whole number of conductors, 1 or more', unitText: false });
+/** Conductors in parallel per phase: more than 100 is a slip, not a cable. */
+export const MAX_PARALLEL = 100;
+const parallelCount = withSpec(z.number().int().min(1).max(MAX_PARALLEL), { expected: `a whole number of conductors from 1 to ${MAX_PARALLEL}`, unitText: false });
 
 // ---------------------------------------------------------------------------------------------
 // project.yaml
@@ -152,7 +165,7 @@ const minFaultTemperature = withSpec(
       const expected = '"final", "operating" or a temperature such as "160 degC"';
       const parsed = parseQuantity(value, 'temperature');
       if (!parsed.ok) return fail(ctx, parsed.problem === 'not-a-number' ? 'invalid-value' : parsed.problem, { actual: value, expected, detail: parsed.detail, allowed: ['final', 'operating', '160 degC'] });
-      if (!(parsed.value > -273.15)) return fail(ctx, 'out-of-range', { actual: value, expected: 'a temperature above absolute zero' });
+      if (!(parsed.value > -273.15 && parsed.value <= 1000)) return fail(ctx, 'out-of-range', { actual: value, expected: 'a temperature above absolute zero and at most 1000 degC' });
       return { mode: 'fixed', celsius: parsed.value };
     })
     .meta({ description: '"final", "operating", or a conductor temperature such as "160 degC"', examples: ['final', 'operating', '160 degC'] }),
@@ -163,8 +176,8 @@ export const settingsSchema = z.strictObject({
   system_voltage: quantity('voltage', { example: '400 V' }),
   frequency: quantity('frequency').optional(),
   earthing: z.enum(['TN-S', 'TN-C-S', 'TN-C', 'TT', 'IT']).optional(),
-  voltage_factor_max: positiveNumber('a voltage factor such as 1.05').optional(),
-  voltage_factor_min: positiveNumber('a voltage factor such as 0.95').optional(),
+  voltage_factor_max: positiveNumber('a voltage factor greater than 0 and at most 2, such as 1.05', 2).optional(),
+  voltage_factor_min: positiveNumber('a voltage factor greater than 0 and at most 2, such as 0.95', 2).optional(),
   min_fault_conductor_temperature: minFaultTemperature.optional(),
   withstand_criterion: z.enum(['any-point', 'through-fault']).optional(),
 });
@@ -175,8 +188,8 @@ export const networkSchema = z.strictObject({
   fault_current: quantity('current', { example: '13 kA' }).optional(),
   fault_level_min: quantity('apparent-power', { example: '150 MVA' }).optional(),
   fault_current_min: quantity('current', { example: '8 kA' }).optional(),
-  x_over_r: positiveNumber('a ratio X/R such as 10').optional(),
-  voltage_factor: positiveNumber('a voltage factor such as 1.10').optional(),
+  x_over_r: nonNegativeNumber('a ratio X/R of 0 or more such as 10').optional(),
+  voltage_factor: positiveNumber('a voltage factor greater than 0 and at most 2, such as 1.10', 2).optional(),
 });
 
 export const transformerSchema = z.strictObject({
@@ -185,14 +198,14 @@ export const transformerSchema = z.strictObject({
   secondary_voltage: quantity('voltage', { example: '400 V' }),
   impedance: percentage('5.75 %', 0.01),
   load_losses: quantity('power', { example: '10.5 kW' }).optional(),
-  x_over_r: positiveNumber('a ratio X/R such as 6').optional(),
+  x_over_r: nonNegativeNumber('a ratio X/R of 0 or more such as 6').optional(),
   vector_group: text.optional(),
-  zero_sequence_ratio: positiveNumber('a ratio Z0/Z1 such as 1.0').optional(),
+  zero_sequence_ratio: positiveNumber('a ratio Z0/Z1 greater than 0 and at most 1000, such as 1.0', 1000).optional(),
 });
 
 export const serviceSchema = z.strictObject({
   fault_current: quantity('current', { example: '16 kA' }),
-  x_over_r: positiveNumber('a ratio X/R such as 2').optional(),
+  x_over_r: nonNegativeNumber('a ratio X/R of 0 or more such as 2').optional(),
   earth_loop_impedance: quantity('impedance', { example: '0.35 ohm' }).optional(),
 });
 

@@ -4,13 +4,13 @@
 import { parseAwgLabel, nfpaResistance20, NFPA_TABLE8_REFERENCE } from '../data/awg.js';
 import { tabulatedResistance20 } from '../data/iec60228.js';
 import type { Conductor, ConductorSize } from './types.js';
-import { formatNumber, parseQuantity, withoutConversionNoise, type QuantityProblem } from './units.js';
+import { formatNumber, inRange, parseQuantity, withoutConversionNoise, type QuantityProblem } from './units.js';
 
 export const IEC60228_REFERENCE = 'IEC 60228:2004 Table 2 (class 2)';
 
 export type SizeResult =
   | { ok: true; size: ConductorSize }
-  | { ok: false; problem: QuantityProblem | 'not-positive' | 'unknown-size' };
+  | { ok: false; problem: QuantityProblem | 'not-positive' | 'unknown-size' | 'out-of-range' };
 
 /** "2/0" alone is understood as AWG (FORMAT.md); "250 MCM" as kcmil. */
 function awgOrKcmil(text: string): ReturnType<typeof parseAwgLabel> {
@@ -31,6 +31,7 @@ export function parseConductorSize(text: string): SizeResult {
   const metric = parseQuantity(text, 'area');
   if (!metric.ok) return { ok: false, problem: metric.problem };
   if (!(metric.value > 0)) return { ok: false, problem: 'not-positive' };
+  if (!inRange('area', metric.value)) return { ok: false, problem: 'out-of-range' };
   // Round away conversion noise (0.95 cm2 -> 95 mm2) so the size matches its table row.
   const areaMm2 = Number((metric.value * 1e6).toPrecision(10));
   return { ok: true, size: { label: `${formatNumber(areaMm2)} mm2`, system: 'metric', area: withoutConversionNoise(areaMm2 / 1e6) } };

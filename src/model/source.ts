@@ -27,6 +27,7 @@ export interface SourceFile {
   doc: Document.Parsed;
   lineCounter: LineCounter;
   value: unknown; // the plain JS value of the document
+  aliasTargets?: ReadonlyMap<YamlNode, YamlNode>; // each alias node's anchor, found once when parsed
 }
 
 /**
@@ -51,46 +52,182 @@ const TEXT_LIST_KEYS = new Set(['assumptions']);
 
 export type ParseOutcome = { ok: true; file: SourceFile; issues: Issue[] } | { ok: false; issues: Issue[] };
 
+/** Alias nodes in one file: each costs a lookup among the file's anchors when the document is read. */
+export const MAX_ALIASES = 1000;
+/** Nodes that aliases may add to a document when expanded (merge keys included). */
+export const MAX_ALIAS_EXPANSION = 100_000;
+/** Collections nested deeper than this are refused (the format needs six levels). */
+export const MAX_NESTING = 64;
+
 export function parseYamlFile(path: string, text: string): ParseOutcome {
   const source = text.startsWith('\uFEFF') ? text.slice(1) : text;
   const lineCounter = new LineCounter();
-  const doc = parseDocument(source, { lineCounter, prettyErrors: false, merge: true, uniqueKeys: true });
+  // Duplicate keys are found below with one set per mapping: the parser's own check compares each key
+  // with every earlier one, quadratic in a mapping's size.
+  const doc = parseDocument(source, { lineCounter, prettyErrors: false, merge: true, uniqueKeys: false });
   const at = (offset: number): { line: number; col: number } => lineCounter.linePos(offset);
   const warnings: Issue[] = doc.warnings.map((w) =>
     problem('yaml-warning', { file: path, ...at(w.pos[0]), path: '' }, { detail: w.message }, 'warning'),
   );
-  if (doc.errors.length > 0) {
+  const structure = checkStructure(doc);
+  const firstError = doc.errors[0];
+  if (firstError !== undefined || structure.syntax !== undefined) {
     // The first error only: after it the parser's recovery reports follow-on errors of the same mistake.
-    const e = doc.errors[0]!;
-    const pos = at(e.pos[0]);
-    const key = keyOnLine(source, pos.line);
-    const error = problem('yaml-syntax', { file: path, ...pos, path: key ?? '' }, { detail: firstLine(e.message) });
+    const offset = firstError !== undefined && (structure.syntax === undefined || firstError.pos[0] <= structure.syntax.offset) ? firstError.pos[0] : structure.syntax!.offset;
+    const detail = firstError !== undefined && offset === firstError.pos[0] ? firstLine(firstError.message) : structure.syntax!.detail;
+    const pos = at(offset);
+    const key = keyOnLine(source, offset, pos.col);
+    const error = problem('yaml-syntax', { file: path, ...pos, path: key ?? '' }, { detail });
     return { ok: false, issues: [error, ...warnings] };
   }
   if (doc.contents === null || (isScalar(doc.contents) && doc.contents.value === null)) {
     return { ok: false, issues: [problem('empty-file', { file: path, line: 1, col: 1, path: '' }, { expected: expectedContent(path) }), ...warnings] };
   }
+  if (structure.limit !== undefined) {
+    return { ok: false, issues: [problem('yaml-alias-limit', { file: path, ...at(structure.limit.offset), path: '' }, { detail: structure.limit.detail }), ...warnings] };
+  }
   let value: unknown;
   try {
     value = doc.toJS({ maxAliasCount: MAX_ALIAS_COUNT });
   } catch (error) {
-    if (error instanceof ReferenceError) {
-      const offset = firstAliasOffset(doc) ?? 0;
-      return {
-        ok: false,
-        issues: [problem('yaml-alias-limit', { file: path, ...at(offset), path: '' }, { limit: MAX_ALIAS_COUNT }), ...warnings],
-      };
-    }
-    throw error;
+    // The structure was checked above: what is left is the parser's own count of repeated expansion.
+    const offset = firstAliasOffset(doc) ?? 0;
+    const detail = error instanceof ReferenceError ? `aliases expand more than ${MAX_ALIAS_COUNT} times` : firstLine(error instanceof Error ? error.message : String(error));
+    return { ok: false, issues: [problem('yaml-alias-limit', { file: path, ...at(offset), path: '' }, { detail }), ...warnings] };
   }
-  const file: SourceFile = { path, doc, lineCounter, value };
+  const file: SourceFile = { path, doc, lineCounter, value, aliasTargets: structure.aliasTargets };
   keepTextAsWritten(file, source);
   return { ok: true, file, issues: warnings };
 }
 
+interface Structure {
+  syntax?: { offset: number; detail: string }; // a duplicate key, an alias without anchor, a bad merge
+  limit?: { offset: number; detail: string }; // too many aliases, too large an expansion, too deep
+  aliasTargets: Map<YamlNode, YamlNode>;
+}
+
+const MERGE_KEY = '<<';
+
+/**
+ * One pass over the document's nodes, in document order and without recursion: duplicate keys (one set
+ * per mapping), aliases resolved to their anchors (the last one before them, as YAML reads them) and
+ * counted, the size an expansion would reach (each anchor's expanded size computed once), merge keys
+ * that do not name a mapping, and the nesting depth. Anchors no alias uses are dropped from the
+ * document, so that reading it compares each alias with the used anchors only.
+ */
+function checkStructure(doc: Document.Parsed): Structure {
+  const out: Structure = { aliasTargets: new Map() };
+  const root = doc.contents as YamlNode | null;
+  if (root === null) return out;
+  const anchors = new Map<string, YamlNode>();
+  const used = new Set<YamlNode>();
+  const expanded = new Map<YamlNode, number>(); // finished nodes: their size with aliases expanded
+  let aliases = 0;
+  let added = 0;
+  let firstAlias: YamlNode | undefined; // where an expansion that grows too large is shown
+  const offsetOf = (node: unknown): number => (node as { range?: [number, number, number] | null })?.range?.[0] ?? 0;
+  const syntax = (node: unknown, detail: string) => {
+    if (out.syntax === undefined) out.syntax = { offset: offsetOf(node), detail };
+  };
+  const limit = (node: unknown, detail: string) => {
+    if (out.limit === undefined) out.limit = { offset: offsetOf(node), detail };
+  };
+  interface Frame {
+    node: YamlNode;
+    children: YamlNode[];
+    next: number;
+    size: number;
+    depth: number;
+  }
+  const childrenOf = (node: YamlNode): YamlNode[] => {
+    if (isMap(node)) {
+      const list: YamlNode[] = [];
+      const keys = new Set<unknown>();
+      for (const pair of node.items) {
+        const key = pair.key as YamlNode | null;
+        const value = pair.value as YamlNode | null;
+        if (isScalar(key)) {
+          const k = key.value;
+          if (typeof k === 'symbol' || (k === MERGE_KEY && key.type === 'PLAIN')) {
+            checkMerge(value); // a merge key, which may come more than once
+          } else {
+            const id = typeof k === 'string' ? `s:${k}` : typeof k === 'number' ? `n:${k}` : k === null ? 'null' : `${typeof k}:${String(k)}`;
+            if (keys.has(id)) syntax(key, 'Map keys must be unique');
+            keys.add(id);
+          }
+        }
+        if (key !== null && typeof key === 'object') list.push(key);
+        if (value !== null && typeof value === 'object') list.push(value);
+      }
+      return list;
+    }
+    if (isSeq(node)) return node.items.filter((i): i is YamlNode => i !== null && typeof i === 'object');
+    return [];
+  };
+  const resolve = (node: unknown): YamlNode | undefined => (isAlias(node) ? anchors.get(node.source) : (node as YamlNode | undefined));
+  const checkMerge = (value: YamlNode | null) => {
+    const target = resolve(value);
+    const sources = isSeq(target) ? target.items.map(resolve) : [target];
+    if (sources.some((s) => !isMap(s))) syntax(value, 'a merge key "<<" needs a mapping, an alias of one, or a list of them');
+  };
+  const stack: Frame[] = [];
+  const enter = (node: YamlNode, depth: number): void => {
+    const anchor = (node as { anchor?: string }).anchor;
+    if (anchor) anchors.set(anchor, node);
+    if (depth > MAX_NESTING) limit(node, `collections are nested more than ${MAX_NESTING} levels deep`);
+    stack.push({ node, children: out.limit === undefined ? childrenOf(node) : [], next: 0, size: 1, depth });
+  };
+  const finish = (size: number): void => {
+    const parent = stack[stack.length - 1];
+    if (parent) parent.size += size;
+  };
+  enter(root, 1);
+  while (stack.length > 0) {
+    const frame = stack[stack.length - 1]!;
+    if (frame.next < frame.children.length && out.limit === undefined) {
+      const child = frame.children[frame.next++]!;
+      if (isAlias(child)) {
+        aliases++;
+        firstAlias ??= child;
+        const target = anchors.get(child.source);
+        if (target === undefined) {
+          syntax(child, `alias *${child.source} has no anchor &${child.source} before it`);
+          continue;
+        }
+        out.aliasTargets.set(child, target);
+        used.add(target);
+        const size = expanded.get(target);
+        if (size === undefined) limit(child, `alias *${child.source} refers to a node that contains it (an endless expansion)`);
+        else {
+          added += size;
+          finish(size);
+        }
+        if (aliases > MAX_ALIASES) limit(child, `aliases are more than ${MAX_ALIASES} in one file`);
+        else if (added > MAX_ALIAS_EXPANSION) limit(firstAlias ?? child, `aliases would expand the document by more than ${MAX_ALIAS_EXPANSION} values`);
+        continue;
+      }
+      enter(child, frame.depth + 1);
+      continue;
+    }
+    stack.pop();
+    expanded.set(frame.node, frame.size);
+    finish(frame.size);
+  }
+  if (out.syntax === undefined && out.limit === undefined) {
+    // Unused anchors: reading an alias compares it with every anchor before it.
+    for (const node of expanded.keys()) {
+      const withAnchor = node as { anchor?: string };
+      if (withAnchor.anchor && !used.has(node)) withAnchor.anchor = undefined;
+    }
+  }
+  return out;
+}
+
 /** The key written on a line ("  length: 45 m" gives "length"), to name the field of a syntax error. */
-function keyOnLine(source: string, line: number): string | undefined {
-  const text = source.split(/\r?\n/)[line - 1] ?? '';
+function keyOnLine(source: string, offset: number, col: number): string | undefined {
+  const start = Math.max(0, offset - (col - 1));
+  const end = source.indexOf('\n', start);
+  const text = source.slice(start, end < 0 ? undefined : end).replace(/\r$/, '');
   return /^\s*(?:-\s+)?([A-Za-z_][A-Za-z0-9_-]*)\s*:/.exec(text)?.[1];
 }
 
@@ -180,8 +317,9 @@ interface Located {
   keyNode?: YamlNode; // the key under which it sits, for a mapping value
 }
 
-function resolveAlias(doc: Document.Parsed, node: unknown): unknown {
-  return isAlias(node) ? node.resolve(doc) : node;
+function resolveAlias(file: SourceFile, node: unknown): unknown {
+  if (!isAlias(node)) return node;
+  return file.aliasTargets?.get(node) ?? node.resolve(file.doc);
 }
 
 /**
@@ -193,7 +331,7 @@ export function locate(file: SourceFile, path: readonly PathSegment[], options: 
   let current: Located = { node: file.doc.contents as YamlNode };
   let complete = true;
   for (const segment of path) {
-    const node = resolveAlias(file.doc, current.node);
+    const node = resolveAlias(file, current.node);
     let next: Located | undefined;
     if (isMap(node)) {
       const pair = node.items.find((p) => isPair(p) && isScalar(p.key) && String(p.key.value) === String(segment));

@@ -33,22 +33,34 @@ export interface DimensionInfo {
   siUnit: string; // the unit the value is converted to
   noun: string; // in words, with article: "a length"
   example: string; // a value an author could write
+  /**
+   * The magnitudes accepted, in SI: far beyond any LV installation either way, so that only a typing
+   * slip (1e308 m, 5e-324 A) is refused, before it overflows a product or a quotient of the solve.
+   */
+  range: { min: number; max: number; text: string };
 }
 
 export const DIMENSIONS: Readonly<Record<Dimension, DimensionInfo>> = {
-  length: { siUnit: 'm', noun: 'a length', example: '45 m' },
-  area: { siUnit: 'm^2', noun: 'an area', example: '95 mm2' },
-  current: { siUnit: 'A', noun: 'a current', example: '13 kA' },
-  voltage: { siUnit: 'V', noun: 'a voltage', example: '400 V' },
-  'apparent-power': { siUnit: 'VA', noun: 'an apparent power', example: '1000 kVA' },
-  power: { siUnit: 'W', noun: 'a power', example: '10.5 kW' },
-  time: { siUnit: 's', noun: 'a time', example: '0.2 s' },
-  frequency: { siUnit: 'Hz', noun: 'a frequency', example: '50 Hz' },
-  impedance: { siUnit: 'ohm', noun: 'an impedance', example: '0.35 ohm' },
-  'impedance-per-length': { siUnit: 'ohm/m', noun: 'an impedance per length', example: '0.08 ohm/km' },
-  'joule-integral': { siUnit: 'A^2 s', noun: 'a Joule integral', example: '1.5e5 A^2 s' },
-  temperature: { siUnit: 'degC', noun: 'a temperature', example: '160 degC' },
+  length: { siUnit: 'm', noun: 'a length', example: '45 m', range: { min: 1e-6, max: 1e6, text: '1 µm to 1000 km' } },
+  area: { siUnit: 'm^2', noun: 'an area', example: '95 mm2', range: { min: 1e-9, max: 1e-1, text: '0.001 mm2 to 100000 mm2' } },
+  current: { siUnit: 'A', noun: 'a current', example: '13 kA', range: { min: 1e-6, max: 1e9, text: '1 µA to 1000 MA' } },
+  voltage: { siUnit: 'V', noun: 'a voltage', example: '400 V', range: { min: 1e-3, max: 1e7, text: '1 mV to 10000 kV' } },
+  'apparent-power': { siUnit: 'VA', noun: 'an apparent power', example: '1000 kVA', range: { min: 1e-3, max: 1e13, text: '1 mVA to 10000000 MVA' } },
+  power: { siUnit: 'W', noun: 'a power', example: '10.5 kW', range: { min: 1e-3, max: 1e13, text: '1 mW to 10000000 MW' } },
+  time: { siUnit: 's', noun: 'a time', example: '0.2 s', range: { min: 1e-9, max: 1e8, text: '1 ns to 100000000 s' } },
+  frequency: { siUnit: 'Hz', noun: 'a frequency', example: '50 Hz', range: { min: 1e-3, max: 1e9, text: '1 mHz to 1 GHz' } },
+  impedance: { siUnit: 'ohm', noun: 'an impedance', example: '0.35 ohm', range: { min: 1e-12, max: 1e9, text: '1 pohm to 1000 Mohm' } },
+  'impedance-per-length': { siUnit: 'ohm/m', noun: 'an impedance per length', example: '0.08 ohm/km', range: { min: 1e-12, max: 1e6, text: '1 nohm/km to 1000 Mohm/km' } },
+  'joule-integral': { siUnit: 'A^2 s', noun: 'a Joule integral', example: '1.5e5 A^2 s', range: { min: 1e-9, max: 1e20, text: '1e-9 A^2 s to 1e20 A^2 s' } },
+  temperature: { siUnit: 'degC', noun: 'a temperature', example: '160 degC', range: { min: -273.15, max: 1e4, text: 'above absolute zero and at most 10000 degC' } },
 };
+
+/** True where a value of the dimension lies in its accepted range (zero is judged by the field's sign rule). */
+export function inRange(dimension: Dimension, value: number): boolean {
+  const { min, max } = DIMENSIONS[dimension].range;
+  const size = Math.abs(value);
+  return size <= max && (size === 0 || size >= min || dimension === 'temperature');
+}
 
 export type QuantityProblem = 'not-a-number' | 'missing-unit' | 'unknown-unit' | 'wrong-dimension';
 

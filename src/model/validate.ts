@@ -176,6 +176,11 @@ function translate(
     }
     case 'invalid_value': {
       const allowed = zodIssue.values.map(String);
+      // A missing or empty enum field, or a list or mapping there, is not a misspelt value.
+      const words = allowed.length === 1 ? JSON.stringify(allowed[0]) : `one of ${allowed.map((a) => JSON.stringify(a)).join(', ')}`;
+      if (raw === undefined) return [problem('missing-field', at, { key: String(path[path.length - 1] ?? ''), expected: words })];
+      if (raw === null) return [problem('empty-value', at, { expected: words })];
+      if (actual === undefined) return [problem('wrong-type', at, { detail: describeValue(raw), expected: words })];
       return [problem('invalid-value', at, { actual: actual ?? describeValue(raw), allowed, suggestion: actual ? nearest(actual, allowed) : undefined })];
     }
     case 'custom': {
