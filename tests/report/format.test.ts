@@ -40,6 +40,63 @@ describe('number formatting', () => {
   });
 });
 
+describe('values that are missing or not finite', () => {
+  const FORMATTERS: Record<string, (x: number | null | undefined) => string> = {
+    significant: (x) => fmt.significant(x as number),
+    scientific: (x) => fmt.scientific(x as number),
+    kiloamps: fmt.kiloamps,
+    milliohmNumber: (x) => fmt.milliohmNumber(x as number),
+    milliohms: fmt.milliohms,
+    energy: fmt.energy,
+    metres: fmt.metres,
+    seconds: fmt.seconds,
+    percent: fmt.percent,
+    amps: fmt.amps,
+    volts: (x) => fmt.volts(x as number),
+    voltAmps: (x) => fmt.voltAmps(x as number),
+    watts: (x) => fmt.watts(x as number),
+    squareMillimetres: (x) => fmt.squareMillimetres(x as number),
+    ohmsPerKm: (x) => fmt.ohmsPerKm(x as number),
+    factor: fmt.factor,
+  };
+  const UNITS = ['A', 'ohm', 'A^2 s', 's', 'm', '%', 'm^2', 'ohm/m', 'V', 'VA', '', 'Hz'];
+  const BAD = /NaN|Infinity|undefined|null|\[object|e[+-]\d/;
+
+  it.each(Object.keys(FORMATTERS))('%s shows a missing or non-finite value as "—"', (name) => {
+    for (const x of [NaN, Infinity, -Infinity, null, undefined]) expect(FORMATTERS[name](x)).toBe('—');
+  });
+
+  it('a traced quantity without a finite value reads "undetermined"', () => {
+    for (const unit of UNITS) for (const x of [NaN, Infinity, -Infinity, null, undefined]) expect(fmt.quantity(x, unit)).toBe('undetermined');
+  });
+
+  it('extreme and negative finite values never read as exponent text, "NaN" or "-0"', () => {
+    const values = [0, -0, 1e-320, 5e-324, -5e-324, 1e-30, 1e-7, -1e-7, 1e-3, 0.04, -0.04, -0.004, 1, -1, 9.996, 1e6, 1e15, 1e20, 1e21, -1e21, 1.7e308, -1.7e308, Number.MAX_VALUE, Number.MIN_VALUE];
+    for (const x of values) {
+      for (const [name, f] of Object.entries(FORMATTERS)) {
+        const text = f(x);
+        expect(text, `${name}(${x})`).not.toMatch(BAD);
+        expect(text, `${name}(${x})`).not.toMatch(/^-0(?:\.0+)?(?: |$)/);
+        expect(text.length, `${name}(${x})`).toBeLessThan(40);
+      }
+      for (const unit of UNITS) expect(fmt.quantity(x, unit), `quantity(${x}, ${unit})`).not.toMatch(BAD);
+    }
+  });
+
+  it('shows very large and very small magnitudes in scientific form', () => {
+    // scientific notation: common practice, no source
+    expect(fmt.significant(1e20)).toBe('1.00 x 10^20');
+    expect(fmt.significant(2.5e-9)).toBe('2.50 x 10^-9');
+    expect(fmt.metres(3e18)).toBe('3.00 x 10^18 m');
+    expect(fmt.percent(1e300)).toBe('1.00 x 10^300 %');
+    expect(fmt.volts(1e22)).toBe('1.000 x 10^19 kV'); // not trimmed into "10^1"
+    expect(fmt.energy(Number.MIN_VALUE)).toBe('4.94 x 10^-324 A^2 s');
+    expect(fmt.energy(Number.MAX_VALUE)).toBe('1.80 x 10^308 A^2 s');
+    expect(fmt.metres(-0.04)).toBe('0.0 m');
+    expect(fmt.amps(-16)).toBe('-16.0 A');
+  });
+});
+
 describe('typesetting', () => {
   it('sets I\'\'k3max as I″ with a real subscript', () => {
     const runs = typeset("I''k3max = 25.3 kA");
