@@ -18,6 +18,8 @@ export interface CliIo {
   cwd: string;
   stdout: NodeJS.WritableStream & { isTTY?: boolean };
   stderr: NodeJS.WritableStream;
+  /** Aborted on an interrupt (SIGINT, SIGTERM): a build stops and leaves OUT as it was. */
+  signal?: AbortSignal;
 }
 
 /** Exit codes, documented in `--help` and the README. */
@@ -25,6 +27,7 @@ export const EXIT = {
   ok: 0, // success; checks may fail unless --strict
   input: 1, // input or usage error (and internal errors, which say so)
   checks: 2, // with --strict: some check fails or is undetermined
+  interrupted: 130, // stopped by SIGINT or SIGTERM (128 + 2, the shell's convention); OUT left as it was
 } as const;
 
 /** A problem the user can fix: printed as one line, no stack. */
@@ -37,7 +40,8 @@ const EXIT_CODES_HELP = `
 Exit codes:
   0  success (checks may fail; use --strict to make that an error)
   1  input or usage error (the problems are listed on stderr), or an internal error
-  2  with --strict: at least one check fails or is undetermined`;
+  2  with --strict: at least one check fails or is undetermined
+  130  interrupted (Ctrl-C): nothing written, OUT left as it was`;
 
 const EXIT_CODES_HELP_PLAIN = `
 Exit codes:
@@ -117,10 +121,16 @@ Run 'faultsheet <command> --help' for a command's options.`,
     .option('-o, --out <out>', 'output folder (default: <dir>/out)')
     .option('-q, --quiet', 'no progress bar and no closing line (errors are still printed)')
     .option('--strict', 'exit 2 if any check fails or is undetermined')
-    .action(async (dir: string, opts: { out?: string; quiet?: boolean; strict?: boolean }) => {
+    .option('--force', 'render every sheet again (by default a sheet whose content has not changed since the last build into OUT is kept)')
+    .option('-j, --jobs <n>', 'sheets rendered at once, in worker threads (default: one per core)', (v: string) => {
+      const n = Number(v);
+      if (!Number.isInteger(n) || n < 1 || n > 64) throw new UserError(`--jobs: ${JSON.stringify(v)} is not a whole number from 1 to 64`);
+      return n;
+    })
+    .action(async (dir: string, opts: { out?: string; quiet?: boolean; strict?: boolean; force?: boolean; jobs?: number }) => {
       const projectDir = path.resolve(io.cwd, dir);
       const outDir = opts.out ? path.resolve(io.cwd, opts.out) : path.join(projectDir, 'out');
-      const built = await buildOne(io, projectDir, outDir, { quiet: Boolean(opts.quiet) });
+      const built = await buildOne(io, projectDir, outDir, { quiet: Boolean(opts.quiet), force: Boolean(opts.force), jobs: opts.jobs });
       if (!opts.quiet) out(`${built.line}\n`);
       if (opts.strict && !allPass(built.result)) code = EXIT.checks;
     });
@@ -157,6 +167,10 @@ Run 'faultsheet <command> --help' for a command's options.`,
       if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version') return EXIT.ok;
       return EXIT.input;
     }
+    if (io.signal?.aborted) {
+      err('interrupted: the build stopped; OUT is as it was before it started\n');
+      return EXIT.interrupted;
+    }
     if (e instanceof ProjectIssues) {
       err(e.message.endsWith('\n') ? e.message : `${e.message}\n`);
       return EXIT.input;
@@ -188,10 +202,11 @@ interface Built {
 }
 
 /** Load, solve and write one project's dossier, with a progress bar on a terminal. */
-async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { quiet: boolean }): Promise<Built> {
+async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { quiet: boolean; force?: boolean; jobs?: number }): Promise<Built> {
   const started = performance.now();
   const project = await load(io, projectDir);
   const result = solveProject(project);
+  io.signal?.throwIfAborted();
   const doc = resultsDocument(project, result);
   const showBar = Boolean(io.stdout.isTTY) && !opts.quiet;
   const bar = showBar
@@ -207,10 +222,17 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
     : undefined;
   // the report (pdfmake, canvas, fonts) is loaded only when a dossier is written
   const { buildDossier, OutputDirError, OutputPlanError, TemplateError } = await import('./report/build.js');
-  bar?.start(project.circuits.length, 0);
+  let kept = 0;
   try {
     await buildDossier(project, result, doc, outDir, {
+      onPlan: (render, unchanged) => {
+        kept = unchanged;
+        bar?.start(render, 0);
+      },
       onProgress: (done: number) => bar?.update(done),
+      force: opts.force,
+      jobs: opts.jobs,
+      signal: io.signal,
     });
   } catch (e) {
     // two sheets on one file name, an output folder that cannot be used, a project template that does not compile
@@ -223,7 +245,7 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
   const failed = countChecks(result, 'fail');
   const undetermined = countChecks(result, 'undetermined');
   const parts = [
-    `${plural(result.circuits.length, 'sheet')} written`,
+    `${plural(result.circuits.length, 'sheet')} written${kept > 0 ? ` (${kept} unchanged since the last build)` : ''}`,
     `${plural(failed, 'check')} failed`,
     ...(undetermined > 0 ? [`${undetermined} undetermined`] : []),
     ...(protectiveConductorProblems(result).length > 0 ? [`${plural(protectiveConductorProblems(result).length, 'protective conductor')} not passing`] : []),

@@ -17,13 +17,17 @@ export const POOL_FROM = 6;
 
 const workerScript = fileURLToPath(new URL('./sheet-worker.js', import.meta.url));
 
-/** How many worker threads a build rendering `sheets` sheets should use (0: render in the main thread). */
+/**
+ * How many worker threads a build rendering `sheets` sheets should use (0: render in the main
+ * thread). `jobs` as asked for (--jobs) is followed; by default a few sheets render in the main thread.
+ */
 export function workerCount(sheets: number, jobs?: number): number {
   // Running from TypeScript sources (tests) there is no compiled worker script to start.
   if (!import.meta.url.endsWith('.js') || !existsSync(workerScript)) return 0;
-  const wanted = jobs ?? availableParallelism();
-  if (wanted < 2 || sheets < POOL_FROM) return 0;
-  return Math.min(wanted, Math.ceil(sheets / 3));
+  if (jobs !== undefined) return jobs < 2 || sheets === 0 ? 0 : Math.min(jobs, sheets);
+  const cores = availableParallelism();
+  if (cores < 2 || sheets < POOL_FROM) return 0;
+  return Math.min(cores, Math.ceil(sheets / 3));
 }
 
 /**

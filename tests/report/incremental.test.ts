@@ -1,0 +1,109 @@
+// Incremental builds: a sheet is rendered again only when something it shows has changed; the
+// rest are taken over from OUT. The files must be the same as a full build's, byte for byte.
+import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync, appendFileSync, mkdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { buildDossier, type BuildReport } from '../../src/report/build.js';
+import { fixtureProject, fixtureResult, fixtureResultsJson } from '../fixtures/report/project.js';
+import { pdfText } from './helpers.js';
+
+const root = mkdtempSync(path.join(tmpdir(), 'fs-incremental-'));
+afterAll(() => rmSync(root, { recursive: true, force: true }));
+const out = path.join(root, 'out');
+
+const outputs = (dir: string): Record<string, Buffer> =>
+  Object.fromEntries(
+    readdirSync(dir)
+      .filter((f) => f !== '.faultsheet-cache')
+      .sort()
+      .map((f) => [f, readFileSync(path.join(dir, f))]),
+  );
+
+async function build(edit?: (p: ReturnType<typeof fixtureProject>, r: ReturnType<typeof fixtureResult>) => void, opts: { force?: boolean; dir?: string } = {}): Promise<BuildReport & { sheets: string[] }> {
+  const p = fixtureProject();
+  const r = fixtureResult();
+  edit?.(p, r);
+  const sheets: string[] = [];
+  const report = await buildDossier(p, r, fixtureResultsJson(p, r), opts.dir ?? out, { force: opts.force, onProgress: (_d, _t, id) => sheets.push(id) });
+  return { ...report, sheets };
+}
+
+const renamed = (p: ReturnType<typeof fixtureProject>, r: ReturnType<typeof fixtureResult>): void => {
+  r.circuits[1].description = p.circuits[1].description = 'Chiller plant feeder, rerouted';
+};
+
+let first: Record<string, Buffer>;
+beforeAll(async () => {
+  const b = await build();
+  expect(b.rendered).toBe(4);
+  first = outputs(out);
+});
+
+describe('incremental build', () => {
+  it('renders nothing when nothing changed, and writes the same files', async () => {
+    const b = await build();
+    expect([b.rendered, b.kept]).toEqual([0, 4]);
+    const again = outputs(out);
+    expect(Object.keys(again)).toEqual(Object.keys(first));
+    for (const f of Object.keys(first)) expect(again[f].equals(first[f]), f).toBe(true);
+  });
+
+  it('renders only the edited circuit, keeps the other files (the same inodes), and the dossier shows the edit', async () => {
+    const before = Object.fromEntries(readdirSync(out).map((f) => [f, statSync(path.join(out, f)).ino]));
+    const b = await build(renamed);
+    expect(b.sheets).toEqual(['MSB-Q1']);
+    expect([b.rendered, b.kept]).toEqual([1, 3]);
+    expect(statSync(path.join(out, 'MSB-Q4.pdf')).ino).toBe(before['MSB-Q4.pdf']);
+    expect(pdfText(path.join(out, 'dossier.pdf'))).toContain('Chiller plant feeder, rerouted');
+    expect(pdfText(path.join(out, 'summary.pdf'))).toContain('Chiller plant feeder, rerouted');
+  });
+
+  it('gives, after an edit, the same bytes as a full build of the edited project', async () => {
+    const full = path.join(root, 'full');
+    const f = await build(renamed, { dir: full, force: true });
+    expect(f.rendered).toBe(4);
+    const a = outputs(out);
+    const b = outputs(full);
+    expect(Object.keys(a)).toEqual(Object.keys(b));
+    for (const name of Object.keys(a)) expect(a[name].equals(b[name]), name).toBe(true);
+  });
+
+  it('--force renders every sheet', async () => {
+    const b = await build(renamed, { force: true });
+    expect([b.rendered, b.kept]).toEqual([4, 0]);
+  });
+
+  it('renders a sheet again when its file in OUT was changed by hand', async () => {
+    appendFileSync(path.join(out, 'MSB-Q7.pdf'), '%edited\n');
+    const b = await build(renamed);
+    expect(b.sheets).toEqual(['MSB-Q7']);
+  });
+
+  it('renders everything when the cache is deleted or unreadable, and builds as usual', async () => {
+    rmSync(path.join(out, '.faultsheet-cache'), { recursive: true });
+    expect((await build(renamed)).rendered).toBe(4);
+    writeFileSync(path.join(out, '.faultsheet-cache', 'manifest.json'), '{"format": 1, "sheets": ');
+    expect((await build(renamed)).rendered).toBe(4);
+    expect(existsSync(path.join(out, 'dossier.pdf'))).toBe(true);
+  });
+
+  it('renders every sheet when the project header, which every sheet shows, changes', async () => {
+    const b = await build((p, r) => {
+      renamed(p, r);
+      p.meta.revision = 'C';
+    });
+    expect(b.rendered).toBe(4);
+  });
+
+  it('renders every sheet when a template changes', async () => {
+    const b = await build((p, r) => {
+      renamed(p, r);
+      p.templatesDir = path.join(root, 'templates');
+      mkdirSync(path.join(p.templatesDir, 'sheet'), { recursive: true });
+      writeFileSync(path.join(p.templatesDir, 'sheet', 'labels.hbs'), readFileSync(path.join(__dirname, '../../templates/sheet/labels.hbs'), 'utf8'));
+      p.meta.revision = 'C';
+    });
+    expect(b.rendered).toBe(4);
+  });
+});
