@@ -144,6 +144,7 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
 
   // Sheet file name -> the dossier object of its first page, for the summary's links. Object numbers
   // are given out part by part, so the first page's number of each part is known before it is read.
+  const sheetFiles = new Set(sheets.flatMap((s) => (s.file ? [s.file] : [])));
   const kids: number[] = [];
   const firstPages: number[] = [];
   const pendingLinks: Array<{ num: number; value: PdfValue; file: string }> = [];
@@ -153,6 +154,18 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
     if (pdf.pages.length !== part.pages) throw new Error(`internal error: ${part.path} has ${pdf.pages.length} pages, ${part.pages} expected`);
     const skip = new Set<number>([pdf.catalog, ...pdf.pageTreeNodes]);
     if (pdf.info !== null) skip.add(pdf.info);
+    // the summary's links to sheet files: URI actions naming a sheet of the dossier give way to
+    // destinations inside it, so the actions themselves are not copied
+    const actionFile = new Map<number, string>();
+    if (part === summary)
+      for (const [num, o] of pdf.objects) {
+        const s = dictGet(o.value, '/S');
+        const file = s?.k === 'atom' && s.text === '/URI' ? literalText(dictGet(o.value, '/URI')) : undefined;
+        if (file !== undefined && sheetFiles.has(file)) {
+          actionFile.set(num, file);
+          skip.add(num);
+        }
+      }
     const map = new Map<number, number>();
     for (const num of [...pdf.objects.keys()].sort((a, b) => a - b)) if (!skip.has(num)) map.set(num, sink.allocate());
     const renumber = (n: number): number => {
@@ -188,15 +201,6 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
         else dictSet(value, '/Resources', { k: 'dict', entries: [['/Font', { k: 'dict', entries: [['/FSpg', atom(`${fontNum} 0 R`)]] }]] });
       }
     }
-    // the summary's links to sheet files: annotations whose action is a URI naming a sheet
-    const actionFile = new Map<number, string>();
-    if (part === summary)
-      for (const [num, o] of pdf.objects) {
-        const s = dictGet(o.value, '/S');
-        const file = s?.k === 'atom' && s.text === '/URI' ? literalText(dictGet(o.value, '/URI')) : undefined;
-        if (file !== undefined) actionFile.set(num, file);
-      }
-
     for (const num of [...map.keys()]) {
       const o = pdf.objects.get(num)!;
       if (pageSet.has(num)) {
@@ -208,17 +212,14 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
       const file = action?.k === 'ref' ? actionFile.get(action.num) : undefined;
       if (file !== undefined) {
         // written once every sheet's first page is known
-        pendingLinks.push({ num: map.get(num)!, value: o.value, file });
+        dictDelete(o.value, '/A');
+        pendingLinks.push({ num: map.get(num)!, value: reNumbered(o.value, renumber), file });
         sink.offsets[map.get(num)!] = -1;
         continue;
       }
       const body = serialize(o.value, renumber);
       if (o.stream) sink.object(map.get(num)!, body, pdf.bytes.subarray(o.stream.start, o.stream.end));
       else sink.object(map.get(num)!, body);
-    }
-    if (part === summary) {
-      // the summary's link objects keep the summary's numbering until they are written
-      for (const l of pendingLinks) l.value = reNumbered(l.value, renumber);
     }
   }
 
@@ -227,11 +228,7 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
     if (s.file) byFile.set(s.file, firstPages[i + 1]);
   });
   for (const l of pendingLinks) {
-    const target = byFile.get(l.file);
-    if (target !== undefined) {
-      dictDelete(l.value, '/A');
-      dictSet(l.value, '/Dest', { k: 'array', items: [ref(target), atom('/Fit')] });
-    }
+    dictSet(l.value, '/Dest', { k: 'array', items: [ref(byFile.get(l.file)!), atom('/Fit')] });
     sink.object(l.num, serialize(l.value, same));
   }
 
