@@ -242,6 +242,9 @@ function describeError(err: unknown): { message: string; line?: number; col?: nu
   return { message: message.replace(/\s*\n\s*/g, ' '), line, col };
 }
 
+/** The partial an error was thrown in, where it was (see the TemplateSet constructor). */
+const failedIn = new WeakMap<object, Source>();
+
 interface Source {
   text: string;
   name: string; // "sheet/verdict.hbs"
@@ -272,7 +275,17 @@ export class TemplateSet {
     this.partialNames = new Set(partialKeys.map((key) => key.slice('partials/'.length, -'.hbs'.length)));
     for (const key of partialKeys) {
       const src = this.source(key)!;
-      this.env.registerPartial(key.slice('partials/'.length, -'.hbs'.length), this.compile(src));
+      const tpl = this.compile(src);
+      // an error inside a partial is reported against the partial's file (the innermost one)
+      const partial = ((context: unknown, options?: Handlebars.RuntimeOptions) => {
+        try {
+          return tpl(context, options);
+        } catch (err) {
+          if (err && typeof err === 'object' && !failedIn.has(err)) failedIn.set(err, src);
+          throw err;
+        }
+      }) as Handlebars.TemplateDelegate;
+      this.env.registerPartial(key.slice('partials/'.length, -'.hbs'.length), partial);
     }
   }
 
@@ -284,6 +297,9 @@ export class TemplateSet {
 
   private fail(src: Source, err: unknown, doing = ''): TemplateError {
     const d = describeError(err);
+    const inner = err && typeof err === 'object' ? failedIn.get(err) : undefined;
+    if (inner && inner.key !== src.key)
+      return new TemplateError(this.where(inner, d.line, d.col), `${doing}${d.message} (in partial ${inner.name}, included from ${this.where(src)})`);
     return new TemplateError(this.where(src, d.line, d.col), `${doing}${d.message}`);
   }
 

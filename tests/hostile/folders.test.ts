@@ -69,6 +69,8 @@ const RCE_TEMPLATE =
   '{{#each conslist}}{{#with (string.sub.apply 0 codelist)}}{{this}}{{/with}}{{/each}}{{/with}}{{/with}}{{/with}}{{/with}}\n';
 
 const HOSTILE_IDS = ['../escape', '/abs/sheet', 'CON', 'nul.txt', '.hidden', '..', 'Щит-1', 'a\u0000b\u001b[2J', `L${'x'.repeat(300)}`];
+/** The ones built (a build renders a PDF per circuit); the file names of the others are unit-tested (tests/report/plan.test.ts). */
+const BUILT_IDS = ['../escape', '/abs/sheet', 'CON', '.hidden', 'a\u0000b\u001b[2J', `L${'x'.repeat(300)}`];
 
 const CASES: Case[] = [
   // ---- files that are not what they claim to be
@@ -154,12 +156,12 @@ const CASES: Case[] = [
   // ---- the output folder
   {
     name: 'hostile ids, built',
-    tree: circuitsWithIds(HOSTILE_IDS),
+    tree: circuitsWithIds(BUILT_IDS),
     command: 'build',
     expect: 'ok',
     after: (_r, dir) => {
       const names = readdirSync(path.join(dir, 'out'));
-      for (const id of HOSTILE_IDS) expect(names).toContain(sheetFileName(id));
+      for (const id of BUILT_IDS) expect(names).toContain(sheetFileName(id));
       for (const n of names.filter((x) => x.endsWith('.pdf'))) expect(n).toMatch(OWN_FILE);
       expect(existsSync('/abs/sheet.pdf')).toBe(false);
     },
@@ -212,6 +214,9 @@ const CASES: Case[] = [
     command: 'build',
     expect: /p\/templates\/sheet\/verdict\.hbs: cannot render sheet\/verdict\.hbs: helper "kA" takes a number, got string/,
   },
+  { name: 'a partial reading the prototype', tree: { ...baseProject(), 'templates/partials/cautions.hbs': '{{#each this}}{{@key}}{{/each}}{{this.constructor.prototype}}\n' }, command: 'build', expect: /p\/templates\/partials\/cautions\.hbs:1:\d+: field "constructor" is not allowed/ },
+  { name: 'a partial that includes itself', tree: { ...baseProject(), 'templates/partials/cautions.hbs': '{{> cautions}}\n' }, command: 'build', expect: /p\/templates\/partials\/cautions\.hbs: cannot render .*a partial that includes itself/ },
+  { name: 'labels running code', tree: { ...baseProject(), 'templates/sheet/labels.hbs': 'title: {{#with "x" as |s|}}{{s.constructor.constructor}}{{/with}}\n' }, command: 'build', expect: /p\/templates\/sheet\/labels\.hbs:1:\d+: field "constructor" is not allowed/ },
   {
     name: 'a template linked from outside the project',
     tree: { ...baseProject(), '../shared/verdict.hbs': '# 1 Verdict\n' },

@@ -247,3 +247,14 @@ describe('reading a templates folder', () => {
     expect(() => set.check()).not.toThrow();
   });
 });
+
+describe('errors inside partials', () => {
+  it('names the partial file where the error is, and the template that included it', () => {
+    const set = new TemplateSet(files({ 'sheet/x.hbs': 'a\n{{> p}}', 'partials/p.hbs': 'b\n{{kA name}}' }), files({ 'partials/p.hbs': 'own\n\n{{kA name}}' }), 'T');
+    expect(() => set.text('sheet/x.hbs', { name: 'text' })).toThrow(
+      /^T\/partials\/p\.hbs: cannot render sheet\/x\.hbs: helper "kA" takes a number, got string \(in partial partials\/p\.hbs, included from templates\/sheet\/x\.hbs \(package\)\)$/,
+    );
+    const loop = new TemplateSet(files({ 'x.hbs': '{{> loop}}' }), files({ 'partials/loop.hbs': '{{> loop}}' }), 'T');
+    expect(() => loop.text('x.hbs', {})).toThrow(/^T\/partials\/loop\.hbs: .*a partial that includes itself/);
+  });
+});
