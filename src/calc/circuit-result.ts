@@ -4,7 +4,7 @@
 import type { AppliedDefault, Circuit, Device, Project } from '../model/types.js';
 import type { CheckResult, CircuitResult, Traced } from './types.js';
 import { type CircuitCase, type CircuitEvaluation, cableVoltageDrop, evaluateCircuit } from './circuit.js';
-import { appendStep, cableLoopImpedance, cablePhaseImpedance, magnitude, resistanceAt } from './impedance.js';
+import { cableLoopImpedance, cablePhaseImpedance, chainStep, defineSteps, magnitude, resistanceAt } from './impedance.js';
 import { minFaultTemperature } from './fault-point.js';
 import { maxProtectedLength, thresholdLength } from './length-search.js';
 import { isDefiniteTimeOnly } from './device.js';
@@ -66,15 +66,15 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   const loop = cableLoopImpedance(cable, cable.length, thetaMin);
   const pe = cable.protectiveConductor;
   const cableLabel = `${cable.parallel > 1 ? `${cable.parallel} × ` : ''}${cable.size.label} ${cable.conductor} ${cable.insulation}, ${fmt.length(cable.length)}`;
-  const buildUpMax = appendStep(
-    board.buildUpMax,
+  const chainMax = chainStep(
+    board.chainMax,
     `Circuit ${circuit.id} cable (phase, 20 °C)`,
     `${cableLabel}: R = ${sig(cable.resistance20 * 1000, 4)} Ω/km × ${fmt.length(cable.length)} / ${cable.parallel} = ${fmt.ohm(phase20.r)}; ` +
       `X = ${sig(cable.reactance * 1000, 3)} Ω/km × ${fmt.length(cable.length)} / ${cable.parallel} = ${fmt.ohm(phase20.x)}`,
     phase20,
   );
-  const buildUpMin = appendStep(
-    board.buildUpMin,
+  const chainMin = chainStep(
+    board.chainMin,
     `Circuit ${circuit.id} cable (phase + PE, ${sig(thetaMin, 4)} °C)`,
     `R_θ = R_20 [1 + 0.004 (θ − 20)], θ = ${sig(thetaMin, 4)} °C; phase ${sig(resistanceAt(cable.resistance20, thetaMin) * 1000, 4)} Ω/km / ${cable.parallel}, ` +
       `PE ${pe.size.label} ${pe.conductor} ${sig(resistanceAt(pe.resistance20, thetaMin) * 1000, 4)} Ω/km / ${pe.parallel}; X_PE per length = X phase`,
@@ -161,7 +161,7 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   if (peWorse) notes.push(peExplanation); // worse than the phase check: say so
   const checks = checkResults(c, ev, circuit, threshold, maxLength, alt.smallestWithstandingSize);
   const defaults: AppliedDefault[] = [...board.defaults, ...circuit.defaults]; // the device's own are on the Device
-  const result: Omit<CircuitResult, 'charts'> = {
+  const result: Omit<CircuitResult, 'charts' | 'buildUpMax' | 'buildUpMin'> = {
     id: circuit.id,
     description: circuit.description,
     from: circuit.from,
@@ -182,14 +182,13 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
     energy: { status: e.status, governingCurrent: e.governingCurrent, letThrough: e.letThrough, rule: e.rule, currentMin: e.currentMin, currentMax: e.currentMax },
     alternatives: alt.alternatives,
     smallestCompliantSize: alt.smallestCompliantSize,
-    buildUpMax,
-    buildUpMin,
     quantities: q,
     notes,
     defaults,
   };
   // The chart series cost more than the checks and only the report reads them: sample on first use.
   let charts: CircuitResult['charts'] | undefined;
+  defineSteps(defineSteps(result, 'buildUpMax', chainMax), 'buildUpMin', chainMin);
   return Object.defineProperty(result, 'charts', {
     enumerable: false,
     get: () => (charts ??= chartSeries(c, ev, threshold, maxLength)),

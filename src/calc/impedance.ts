@@ -16,6 +16,39 @@ export function appendStep(steps: readonly ImpedanceStep[], element: string, det
   return [...steps, { element, detail, z, total: add(prev, z) }];
 }
 
+/**
+ * A build-up as a chain from the source: each board and circuit adds one link to its feeder's, so a
+ * deep board tree costs one link per level, not a copy of the whole list at every level. The list is
+ * written out (`stepsOf`) only where a sheet reads it.
+ */
+export interface StepChain {
+  readonly parent: StepChain | undefined;
+  readonly step: ImpedanceStep;
+}
+
+export function chainStep(parent: StepChain | undefined, element: string, detail: string, z: Impedance): StepChain {
+  return { parent, step: { element, detail, z, total: add(parent?.step.total ?? ZERO, z) } };
+}
+
+export function chainOf(steps: readonly ImpedanceStep[]): StepChain | undefined {
+  let chain: StepChain | undefined;
+  for (const s of steps) chain = chainStep(chain, s.element, s.detail, s.z);
+  return chain;
+}
+
+/** The chain as the list from the source, without recursion. */
+export function stepsOf(chain: StepChain | undefined): ImpedanceStep[] {
+  const out: ImpedanceStep[] = [];
+  for (let link = chain; link !== undefined; link = link.parent) out.push(link.step);
+  return out.reverse();
+}
+
+/** Defines `key` on `target` as the chain's list, written out when first read (enumerable, so spreads copy it). */
+export function defineSteps<T extends object>(target: T, key: string, chain: StepChain | undefined): T {
+  let steps: ImpedanceStep[] | undefined;
+  return Object.defineProperty(target, key, { enumerable: true, configurable: true, get: () => (steps ??= stepsOf(chain)) });
+}
+
 export function scale(z: Impedance, factor: number): Impedance {
   return { r: z.r * factor, x: z.x * factor };
 }

@@ -5,6 +5,7 @@ import type { Project } from '../model/types.js';
 import type { BoardResult, CircuitResult, ProjectResult } from './types.js';
 import { lineToEarthCurrent, peakCurrent, peakFactor, threePhaseCurrent } from './fault-current.js';
 import { propagate } from './network.js';
+import { defineSteps } from './impedance.js';
 import { circuitResult } from './circuit-result.js';
 
 export function solveProject(project: Project): ProjectResult {
@@ -12,7 +13,7 @@ export function solveProject(project: Project): ProjectResult {
   const states = propagate(project);
   const boards: BoardResult[] = states.map((b) => {
     const ik3max = threePhaseCurrent(settings.voltageFactorMax, settings.systemVoltage, b.source.zMax);
-    return {
+    const board: Omit<BoardResult, 'buildUpMax' | 'buildUpMin'> = {
       id: b.id,
       fedBy: b.fedBy,
       supply: b.supply,
@@ -23,9 +24,8 @@ export function solveProject(project: Project): ProjectResult {
       zMax: b.source.zMax,
       zLoopMin: b.source.zLoopMin,
       voltageDrop: b.voltageDrop,
-      buildUpMax: b.buildUpMax,
-      buildUpMin: b.buildUpMin,
     };
+    return defineSteps(defineSteps(board as BoardResult, 'buildUpMax', b.chainMax), 'buildUpMin', b.chainMin);
   });
   const stateById = new Map(states.map((s) => [s.id, s]));
   const deviceById = new Map(project.devices.map((d) => [d.id, d]));

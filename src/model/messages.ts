@@ -145,29 +145,57 @@ export function problem(code: ProblemCode, at: ProblemLocation, data: ProblemDat
 
 /** The closest of `candidates` to `word` by edit distance, if it is close enough to be a typo. */
 export function nearest(word: string, candidates: readonly string[]): string | undefined {
+  const tolerance = Math.max(1, Math.floor(word.length / 3));
+  const lower = word.toLowerCase();
   let best: string | undefined;
-  let bestDistance = Infinity;
+  let bestDistance = tolerance + 1;
   for (const candidate of candidates) {
-    const distance = editDistance(word.toLowerCase(), candidate.toLowerCase());
+    if (Math.abs(candidate.length - word.length) >= bestDistance) continue; // at least that many edits
+    const distance = editDistance(lower, candidate.toLowerCase(), bestDistance - 1);
     if (distance < bestDistance) {
       best = candidate;
       bestDistance = distance;
     }
   }
-  const tolerance = Math.max(1, Math.floor(word.length / 3));
-  return bestDistance <= tolerance ? best : undefined;
+  return best;
 }
 
-/** Optimal string alignment distance: insertions, deletions, substitutions, adjacent swaps. */
-function editDistance(a: string, b: string): number {
-  const d: number[][] = Array.from({ length: a.length + 1 }, (_, i) => Array.from({ length: b.length + 1 }, (_, j) => (i === 0 ? j : j === 0 ? i : 0)));
+/**
+ * `nearest` over one list of candidates, remembered per word, for the project-wide checks where every
+ * circuit may name an unknown board: after `budget` distinct words no more are looked up (each lookup
+ * is a pass over the whole list), so that thousands of unknown names stay linear.
+ */
+export function suggester(candidates: readonly string[], budget = 200): (word: string) => string | undefined {
+  const known = new Map<string, string | undefined>();
+  return (word) => {
+    if (known.has(word)) return known.get(word);
+    if (known.size >= budget) return undefined;
+    const found = nearest(word, candidates);
+    known.set(word, found);
+    return found;
+  };
+}
+
+/**
+ * Optimal string alignment distance (insertions, deletions, substitutions, adjacent swaps); any value
+ * above `limit` is returned as `limit + 1` as soon as no alignment can stay within it.
+ */
+function editDistance(a: string, b: string, limit: number): number {
+  let before = new Array<number>(b.length + 1).fill(0); // row i - 2
+  let previous = Array.from({ length: b.length + 1 }, (_, j) => j); // row i - 1
+  let current = new Array<number>(b.length + 1).fill(0);
   for (let i = 1; i <= a.length; i++) {
+    current[0] = i;
+    let rowMin = i;
     for (let j = 1; j <= b.length; j++) {
       const cost = a[i - 1] === b[j - 1] ? 0 : 1;
-      let best = Math.min(d[i - 1]![j]! + 1, d[i]![j - 1]! + 1, d[i - 1]![j - 1]! + cost);
-      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) best = Math.min(best, d[i - 2]![j - 2]! + 1);
-      d[i]![j] = best;
+      let best = Math.min(previous[j]! + 1, current[j - 1]! + 1, previous[j - 1]! + cost);
+      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) best = Math.min(best, before[j - 2]! + 1);
+      current[j] = best;
+      if (best < rowMin) rowMin = best;
     }
+    if (rowMin > limit) return limit + 1;
+    [before, previous, current] = [previous, current, before];
   }
-  return d[a.length]![b.length]!;
+  return Math.min(previous[b.length]!, limit + 1);
 }

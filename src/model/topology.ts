@@ -3,7 +3,7 @@
 // (even in entries that failed validation), so they are reported together with every other issue.
 
 import type { Issue } from './issues.js';
-import { nearest, problem } from './messages.js';
+import { problem, suggester } from './messages.js';
 import { locate, type PathSegment, type SourceFile } from './source.js';
 import { locationOf } from './validate.js';
 
@@ -81,14 +81,15 @@ export function checkProjectRefs(refs: ProjectRefs, issues: Issue[], unread: Unr
     issues,
   );
 
-  const deviceIds = [...new Set(refs.devices.flatMap((d) => (d.id ? [d.id.value] : [])))].sort(compare);
+  const deviceSet = new Set(refs.devices.flatMap((d) => (d.id ? [d.id.value] : [])));
+  const suggestDevice = suggester([...deviceSet].sort(compare));
   for (const circuit of refs.circuits) {
     if (unread.devices) break;
-    if (circuit.device && !deviceIds.includes(circuit.device.value)) {
+    if (circuit.device && !deviceSet.has(circuit.device.value)) {
       issues.push(
         problem('unknown-device', locationOf(circuit.device.file, circuit.device.path), {
           id: circuit.device.value,
-          suggestion: nearest(circuit.device.value, deviceIds),
+          suggestion: suggestDevice(circuit.device.value),
         }),
       );
     }
@@ -128,12 +129,13 @@ export function checkProjectRefs(refs: ProjectRefs, issues: Issue[], unread: Unr
     checkTree(refs.circuits, feeders, boards, issues, false);
     return;
   }
+  const suggestBoard = suggester(boards);
   for (const circuit of refs.circuits) {
     if (circuit.from && !feeders.has(circuit.from.value)) {
       issues.push(
         problem('unknown-board', locationOf(circuit.from.file, circuit.from.path), {
           id: circuit.from.value,
-          suggestion: nearest(circuit.from.value, boards),
+          suggestion: suggestBoard(circuit.from.value),
         }),
       );
     }
@@ -188,28 +190,36 @@ function checkTree(circuits: CircuitRefs[], feeders: Map<string, Feeder[]>, boar
       issues.push(problem('self-loop', locationOf(edge.ref.file, edge.ref.path), { id: edge.circuit, detail: edge.from }));
     }
   }
-  for (const component of stronglyConnected([...new Set([...boards, ...edges.map((e) => e.from)])].sort(compare), outgoing)) {
-    if (component.length < 2) continue;
-    const members = new Set(component);
-    for (const board of component) inCycle.add(board);
-    const inside = edges
-      .filter((e) => members.has(e.from) && members.has(e.to) && e.from !== e.to)
-      .sort((a, b) => compare(a.circuit, b.circuit));
-    const first = inside[0]!;
-    issues.push(
-      problem('loop', locationOf(first.ref.file, first.ref.path), {
-        list: inside.map((e) => `${e.circuit} (${e.from} -> ${e.to})`),
-      }),
-    );
+  const components = stronglyConnected([...new Set([...boards, ...edges.map((e) => e.from)])].sort(compare), outgoing);
+  const componentOf = new Map<string, number>();
+  components.forEach((component, index) => {
+    if (component.length >= 2) for (const board of component) componentOf.set(board, index);
+  });
+  const insideOf = new Map<number, Edge[]>();
+  for (const e of edges) {
+    const index = componentOf.get(e.from);
+    if (index === undefined || e.from === e.to || componentOf.get(e.to) !== index) continue;
+    const list = insideOf.get(index) ?? [];
+    list.push(e);
+    insideOf.set(index, list);
   }
+  components.forEach((component, index) => {
+    if (component.length < 2) return;
+    for (const board of component) inCycle.add(board);
+    const inside = insideOf.get(index)!.sort((a, b) => compare(a.circuit, b.circuit));
+    const first = inside[0]!;
+    const shown = inside.slice(0, LISTED).map((e) => `${e.circuit} (${e.from} -> ${e.to})`);
+    if (inside.length > LISTED) shown.push(`and ${inside.length - LISTED} more circuits`);
+    issues.push(problem('loop', locationOf(first.ref.file, first.ref.path), { list: shown }));
+  });
 
   if (!reachability) return; // a supply or circuit file was not read: which boards are fed is not known
   // Reachability from the boards the supplies feed.
   const reached = new Set<string>();
   const queue = boards.filter((b) => feeders.get(b)!.some((f) => f.kind === 'supply'));
   for (const board of queue) reached.add(board);
-  while (queue.length > 0) {
-    const board = queue.shift()!;
+  for (let head = 0; head < queue.length; head++) {
+    const board = queue[head]!;
     for (const edge of outgoing.get(board) ?? []) {
       if (!reached.has(edge.to)) {
         reached.add(edge.to);
@@ -217,37 +227,61 @@ function checkTree(circuits: CircuitRefs[], feeders: Map<string, Feeder[]>, boar
       }
     }
   }
+  const ends = new Map<string, string>();
   for (const board of boards) {
     if (reached.has(board) || inCycle.has(board)) continue;
     const feeder = feeders.get(board)![0]!;
     issues.push(
-      problem('unreachable-board', locationOf(feeder.ref.file, feeder.ref.path), { id: board, list: feedChain(board, feeders, inCycle) }),
+      problem('unreachable-board', locationOf(feeder.ref.file, feeder.ref.path), { id: board, list: feedChain(board, feeders, inCycle, ends) }),
     );
   }
 }
 
-/** "MCC-1 <- circuit Q4 <- DB9, which nothing feeds": the way up from a board until it stops. */
-function feedChain(board: string, feeders: Map<string, Feeder[]>, inCycle: Set<string>): string[] {
+/** Entries of a loop or a feed chain written out in a message; a longer one is shortened. */
+const LISTED = 12;
+
+/**
+ * "MCC-1 <- circuit Q4 <- DB9, which nothing feeds": the way up from a board until it stops. A long way
+ * shows its first steps and its end; the end of each board's way is remembered in `ends`, so that a
+ * long unfed chain costs one walk, not one per board.
+ */
+function feedChain(board: string, feeders: Map<string, Feeder[]>, inCycle: Set<string>, ends: Map<string, string>): string[] {
   const chain = [board];
+  const walked = [board];
   const seen = new Set([board]);
   let current = board;
+  let end: string;
   for (;;) {
+    const known = ends.get(current);
+    if (known !== undefined && current !== board) {
+      end = known;
+      break;
+    }
     const feeder = feeders.get(current)?.[0];
     if (feeder === undefined || feeder.kind !== 'circuit' || feeder.from === undefined) {
-      chain[chain.length - 1] += ', which nothing feeds';
-      return chain;
+      end = `${current}, which nothing feeds`;
+      break;
     }
-    chain.push(`circuit ${feeder.id}`);
-    current = feeder.from;
-    if (seen.has(current) || inCycle.has(current)) {
-      chain.push(`${current}, which is in a loop`);
-      return chain;
+    const next = feeder.from;
+    if (chain.length < LISTED) chain.push(`circuit ${feeder.id}`);
+    if (seen.has(next) || inCycle.has(next)) {
+      if (chain.length < LISTED) chain.push(next);
+      end = `${next}, which is in a loop`;
+      break;
     }
-    seen.add(current);
-    chain.push(current);
+    seen.add(next);
+    walked.push(next);
+    if (chain.length < LISTED) chain.push(next);
+    current = next;
   }
+  for (const b of walked) ends.set(b, end);
+  const last = chain[chain.length - 1]!;
+  if (end.startsWith(`${last},`)) chain[chain.length - 1] = end;
+  else chain.push('…', end);
+  return chain;
 }
 
+/** Tarjan's algorithm with an explicit stack: a chain of thousands of boards must not overflow the call stack. */
 function stronglyConnected(nodes: string[], outgoing: Map<string, Edge[]>): string[][] {
   const index = new Map<string, number>();
   const low = new Map<string, number>();
@@ -255,31 +289,41 @@ function stronglyConnected(nodes: string[], outgoing: Map<string, Edge[]>): stri
   const stack: string[] = [];
   const components: string[][] = [];
   let counter = 0;
-  const visit = (node: string): void => {
+  const open = (node: string, work: Array<{ node: string; edges: Edge[]; next: number }>): void => {
     index.set(node, counter);
     low.set(node, counter);
     counter++;
     stack.push(node);
     onStack.add(node);
-    for (const edge of outgoing.get(node) ?? []) {
-      if (!index.has(edge.to)) {
-        visit(edge.to);
-        low.set(node, Math.min(low.get(node)!, low.get(edge.to)!));
-      } else if (onStack.has(edge.to)) {
-        low.set(node, Math.min(low.get(node)!, index.get(edge.to)!));
+    work.push({ node, edges: outgoing.get(node) ?? [], next: 0 });
+  };
+  for (const start of nodes) {
+    if (index.has(start)) continue;
+    const work: Array<{ node: string; edges: Edge[]; next: number }> = [];
+    open(start, work);
+    while (work.length > 0) {
+      const frame = work[work.length - 1]!;
+      if (frame.next < frame.edges.length) {
+        const to = frame.edges[frame.next++]!.to;
+        if (!index.has(to)) open(to, work);
+        else if (onStack.has(to)) low.set(frame.node, Math.min(low.get(frame.node)!, index.get(to)!));
+        continue;
+      }
+      work.pop();
+      const node = frame.node;
+      const parent = work[work.length - 1];
+      if (parent) low.set(parent.node, Math.min(low.get(parent.node)!, low.get(node)!));
+      if (low.get(node) === index.get(node)) {
+        const component: string[] = [];
+        let member: string;
+        do {
+          member = stack.pop()!;
+          onStack.delete(member);
+          component.push(member);
+        } while (member !== node);
+        components.push(component.sort(compare));
       }
     }
-    if (low.get(node) === index.get(node)) {
-      const component: string[] = [];
-      let member: string;
-      do {
-        member = stack.pop()!;
-        onStack.delete(member);
-        component.push(member);
-      } while (member !== node);
-      components.push(component.sort(compare));
-    }
-  };
-  for (const node of nodes) if (!index.has(node)) visit(node);
+  }
   return components;
 }
