@@ -90,11 +90,16 @@ export function circuitResult(project: Project, circuit: Circuit, device: Device
   const zl = magnitude(ev.end.zLoop);
   q.push({ symbol: "I''k3max,origin", value: ev.origin.ik3max, unit: 'A', formula: 'c_max·U_n / (√3·|Z_k|)', substitution: `${sig(cMax, 3)} × ${fmt.voltage(un)} / (√3 × ${fmt.ohm(zo)})`, reference: REF.ik3 });
   const rx = ev.origin.zMax.r / ev.origin.zMax.x;
-  q.push({ symbol: 'κ origin', value: ev.origin.kappa3, unit: '', formula: '1.02 + 0.98·e^(−3R/X)', substitution: `1.02 + 0.98 × e^(−3 × ${sig(rx, 4)}), with R/X = ${fmt.ohm(ev.origin.zMax.r)} / ${fmt.ohm(ev.origin.zMax.x)} = ${sig(rx, 4)}`, reference: REF.ip });
+  const kappaOrigin =
+    ev.origin.zMax.x > 0
+      ? `1.02 + 0.98 × e^(−3 × ${sig(rx, 4)}), with R/X = ${fmt.ohm(ev.origin.zMax.r)} / ${fmt.ohm(ev.origin.zMax.x)} = ${sig(rx, 4)}`
+      : `X = 0 (a purely resistive path): e^(−3R/X) → 0, κ = 1.02`;
+  q.push({ symbol: 'κ origin', value: ev.origin.kappa3, unit: '', formula: '1.02 + 0.98·e^(−3R/X)', substitution: kappaOrigin, reference: REF.ip });
   q.push({ symbol: 'i_p,origin', value: ev.origin.ip, unit: 'A', formula: 'κ·√2·I″k3max', substitution: `${sig(ev.origin.kappa3, 4)} × √2 × ${fmt.current(ev.origin.ik3max)}`, reference: REF.ip });
   q.push({ symbol: "I''k3max,end", value: ev.end.ik3max, unit: 'A', formula: 'c_max·U_n / (√3·|Z_k,end|)', substitution: `${sig(cMax, 3)} × ${fmt.voltage(un)} / (√3 × ${fmt.ohm(ze)})`, reference: REF.ik3 });
   const rxEnd = ev.end.zMax.r / ev.end.zMax.x;
-  q.push({ symbol: 'i_p,end', value: ev.end.ip, unit: 'A', formula: 'κ·√2·I″k3max,end, κ = 1.02 + 0.98·e^(−3R/X)', substitution: `${sig(ev.end.kappa3, 4)} × √2 × ${fmt.current(ev.end.ik3max)}, with κ = 1.02 + 0.98 × e^(−3 × ${sig(rxEnd, 4)})`, reference: REF.ip });
+  const kappaEnd = ev.end.zMax.x > 0 ? `κ = 1.02 + 0.98 × e^(−3 × ${sig(rxEnd, 4)})` : 'κ = 1.02 (X = 0, a purely resistive path)';
+  q.push({ symbol: 'i_p,end', value: ev.end.ip, unit: 'A', formula: 'κ·√2·I″k3max,end, κ = 1.02 + 0.98·e^(−3R/X)', substitution: `${sig(ev.end.kappa3, 4)} × √2 × ${fmt.current(ev.end.ik3max)}, with ${kappaEnd}`, reference: REF.ip });
   q.push({ symbol: "I''k1min,end", value: ev.end.ik1min, unit: 'A', formula: 'c_min·U_n / (√3·|Z_loop|)', substitution: `${sig(cMin, 3)} × ${fmt.voltage(un)} / (√3 × ${fmt.ohm(zl)}), conductors at ${sig(thetaMin, 4)} °C`, reference: REF.ik1 });
   const k = ev.k;
   q.push({

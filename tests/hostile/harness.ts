@@ -100,6 +100,22 @@ export function issueProblems(issue: Issue, files: readonly TextFile[]): string[
   return problems.map((p) => `${text}\n    -> ${p}`);
 }
 
+/** Working text of the sheets that shows a broken number (NaN, Infinity, undefined) not written in the input. */
+export function badWords(value: unknown, files: readonly TextFile[]): string[] {
+  const words = ['NaN', 'Infinity', 'undefined', '[object'].filter((w) => !files.some((f) => f.text.includes(w)));
+  const out: string[] = [];
+  const walk = (v: unknown, seen: Set<unknown>): void => {
+    if (typeof v === 'string') {
+      for (const w of words) if (v.includes(w)) out.push(`report text says "${w}": ${v.slice(0, 200)}`);
+    } else if (v !== null && typeof v === 'object' && !seen.has(v)) {
+      seen.add(v);
+      for (const child of Array.isArray(v) ? v : Object.values(v)) walk(child, seen);
+    }
+  };
+  walk(value, new Set());
+  return out;
+}
+
 /** Everything wrong with an outcome; empty where it is a clean result or clean user errors. */
 export function outcomeProblems(outcome: Outcome, files: readonly TextFile[]): string[] {
   if (outcome.kind === 'issues') {
@@ -110,6 +126,7 @@ export function outcomeProblems(outcome: Outcome, files: readonly TextFile[]): s
   return [
     ...nonFinite(outcome.document, 'results'),
     ...nonFinite(outcome.lazy, 'report values'),
+    ...badWords(outcome.lazy, files),
     ...outcome.warnings.flatMap((i) => issueProblems(i, files)),
   ];
 }
