@@ -264,7 +264,7 @@ describe('random mutations of valid projects', () => {
       fc.property(project, fc.array(documentEdit, { minLength: 1, maxLength: 4 }), fc.boolean(), (dir, edits, lazy) => {
         check(editDocuments(projects.get(dir)!, edits), lazy);
       }),
-      { seed: SEED, numRuns: Math.round(150 * RUNS), endOnFailure: true },
+      { seed: SEED, numRuns: Math.round(100 * RUNS), endOnFailure: true },
     );
   });
 
@@ -273,7 +273,7 @@ describe('random mutations of valid projects', () => {
       fc.property(project, fc.array(textEdit, { minLength: 1, maxLength: 3 }), (dir, edits) => {
         check(editText(projects.get(dir)!, edits), false);
       }),
-      { seed: SEED, numRuns: Math.round(100 * RUNS), endOnFailure: true },
+      { seed: SEED, numRuns: Math.round(70 * RUNS), endOnFailure: true },
     );
   });
 });
