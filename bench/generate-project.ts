@@ -3,8 +3,10 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 
-const n = Number(process.argv[2] ?? 100);
-const dir = process.argv[3] ?? `/tmp/faultsheet-bench-${n}`;
+import { pathToFileURL } from 'node:url';
+
+/** Write a project of `n` circuits into `dir` (sub-mains from MSB to one board per 40 circuits, then finals). */
+export function generateProject(n: number, dir: string): void {
 mkdirSync(join(dir, 'devices'), { recursive: true });
 mkdirSync(join(dir, 'circuits'), { recursive: true });
 
@@ -84,4 +86,18 @@ cable: { conductor: copper, insulation: ${i % 2 ? 'PVC' : 'XLPE'}, size: ${[2.5,
 `,
   );
 }
-console.log(`${n} circuits written to ${dir}`);
+}
+
+/** The file of the last final circuit (the one a benchmark edits). */
+export function lastFinalCircuitFile(n: number, dir: string): string {
+  const boards = Math.max(1, Math.floor(n / 40));
+  const i = n - boards - 1;
+  return join(dir, 'circuits', `DB${i % boards}-C${String(i).padStart(4, '0')}.yaml`);
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
+  const n = Number(process.argv[2] ?? 100);
+  const dir = process.argv[3] ?? `/tmp/faultsheet-bench-${n}`;
+  generateProject(n, dir);
+  console.log(`${n} circuits written to ${dir}`);
+}

@@ -38,6 +38,17 @@ export interface BuildOptions {
   renderer?: Renderer;
 }
 
+/** FAULTSHEET_TIMINGS=1: the time of each phase of a build on stderr (for profiling; see DEVELOPERS.md). */
+function phaseClock(): (phase: string) => void {
+  if (!process.env.FAULTSHEET_TIMINGS) return () => undefined;
+  let last = performance.now();
+  return (phase) => {
+    const now = performance.now();
+    process.stderr.write(`faultsheet: ${phase} ${((now - last) / 1000).toFixed(3)} s\n`);
+    last = now;
+  };
+}
+
 export interface BuildReport {
   files: string[]; // OUT joined with each name
   rendered: number;
@@ -46,6 +57,7 @@ export interface BuildReport {
 
 /** Write the dossier of `project` into `outDir`. */
 export async function buildDossier(project: Project, result: ProjectResult, resultsJson: unknown, outDir: string, opts: BuildOptions = {}): Promise<BuildReport> {
+  const clock = phaseClock();
   const plan = planOutputs(project, result); // collisions fail here, before anything is written
   const templates = projectTemplates(project);
   templates.check(); // a project template that does not compile fails here, before anything is written
@@ -71,6 +83,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       pages[i] = kept.pages;
       manifest.sheets[file] = kept;
     }
+    clock(`plan and cache (${toRender.length} to render, ${total - toRender.length} kept)`);
     opts.onPlan?.(toRender.length, total - toRender.length);
     signal?.throwIfAborted();
 
@@ -94,6 +107,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       }
     }
 
+    clock(`sheets (${threads > 0 ? `${threads} worker threads` : 'main thread'})`);
     // The summary's index gives each sheet's first page in the dossier, which depends on the
     // summary's own length: lay it out until the page count it assumed is the one it has (the last
     // build's count is the first guess, so an unchanged length is laid out once).
@@ -101,6 +115,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     const labels = templates.labels('summary/labels.hbs');
     let summaryPages = previous?.summaryPages && previous.summaryPages >= 1 ? previous.summaryPages : 1;
     let summary: { bytes: Buffer; pages: number } | null = null;
+    let summaryLayouts = 0;
     for (let attempt = 0; attempt < 4 && !summary; attempt++) {
       signal?.throwIfAborted();
       const firstPage = new Map<string, number>();
@@ -110,11 +125,13 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         next += pages[i];
       });
       const bytes = await renderer.pdf(summaryDocument(project, result, { templates, dossierPages: firstPage }));
+      summaryLayouts++;
       const got = pdfPageCount(bytes);
       if (got === summaryPages) summary = { bytes, pages: got };
       else summaryPages = got;
     }
     if (!summary) throw new Error('internal error: the summary page count does not settle');
+    clock(`summary (${summaryLayouts} layout${summaryLayouts === 1 ? '' : 's'}, ${summary.pages} pages)`);
     await staging.write(SUMMARY_FILE, summary.bytes);
     manifest.summaryPages = summary.pages;
     signal?.throwIfAborted();
@@ -137,10 +154,12 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         pageLabel: labels['dossier.page'],
       },
     );
+    clock('dossier');
     await staging.write(RESULTS_FILE, JSON.stringify(resultsJson, null, 2) + '\n');
     await staging.write(`${CACHE_DIR}/${MANIFEST_FILE}`, JSON.stringify(manifest) + '\n');
     signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
     await staging.commit();
+    clock('results, cache and swap');
     return { files: plan.files.map((f) => path.join(outDir, f)), rendered: toRender.length, kept: total - toRender.length };
   } catch (err) {
     await staging.discard();

@@ -61,7 +61,7 @@ export async function renderSheetsInPool(
     maxThreads: threads,
     idleTimeout: 60_000,
     // a larger young generation: a sheet allocates a lot of short-lived objects (fewer scavenges)
-    resourceLimits: { maxYoungGenerationSizeMb: 64 },
+    resourceLimits: { maxYoungGenerationSizeMb: 96 },
   });
   const local = new AbortController();
   setMaxListeners(indices.length + 10, local.signal); // piscina listens once per queued task

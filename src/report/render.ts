@@ -170,16 +170,25 @@ export function createRenderer(): Renderer {
 /**
  * Charts are drawn on an opaque (RGB24) canvas so the PNG has no alpha channel: pdfkit then embeds
  * it as it is, instead of decoding it to split off the alpha (a large share of a sheet's time).
+ * One canvas per size is drawn on again and again: a canvas's pixels live outside the JavaScript
+ * heap and are freed only when the collector gets round to the canvas, so a new canvas per chart
+ * let a long build's memory grow by megabytes a sheet. Every chart paints its whole area first
+ * (fsWhite), so nothing of the previous chart shows through.
  * Uses chartjs-node-canvas's canvas factory; if that ever changes, charts stay correct, only slower.
  */
 function opaquePng(canvas: ChartJSNodeCanvas): void {
   const target = canvas as unknown as { _createCanvas?: (w: number, h: number, type?: string) => unknown };
   const create = target._createCanvas;
   if (typeof create !== 'function') return;
+  const kept = new Map<string, unknown>();
   target._createCanvas = (w: number, h: number, type?: string) => {
+    const key = `${w}x${h}:${type ?? ''}`;
+    const reuse = kept.get(key);
+    if (reuse) return reuse;
     const c = create(w, h, type) as { getContext: (kind: string, attrs?: object) => unknown };
     const getContext = c.getContext.bind(c);
     c.getContext = (kind: string, attrs?: object) => getContext(kind, { ...(attrs ?? {}), pixelFormat: 'RGB24' });
+    kept.set(key, c);
     return c;
   };
 }
