@@ -236,6 +236,7 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
     });
   } catch (e) {
     // two sheets on one file name, an output folder that cannot be used, a project template that does not compile
+    if (e instanceof TemplateError && project.templatesDir) throw new UserError(e.message.split(project.templatesDir).join(display(io, project.templatesDir)));
     if (e instanceof OutputPlanError || e instanceof OutputDirError || e instanceof TemplateError) throw new UserError(e.message);
     throw e;
   } finally {
@@ -291,6 +292,16 @@ const CHECK_WORD: Record<CheckResult['name'], string> = {
 };
 
 /** The readable summary of a solved project: board fault levels, problems first, then every circuit. */
+/**
+ * Text for a terminal: control characters (C0 but the line feed, DEL, C1) and the bidirectional
+ * controls an id or description may hold are shown as \u escapes, so input cannot move the cursor,
+ * recolour the terminal or reorder what is printed.
+ */
+export function printable(text: string): string {
+  // eslint-disable-next-line no-control-regex
+  return text.replace(/[\u0000-\u0009\u000b-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+}
+
 export function solveTable(project: Project, result: ProjectResult): string {
   const lines: string[] = [];
   const m = project.meta;
@@ -356,7 +367,7 @@ export function solveTable(project: Project, result: ProjectResult): string {
   lines.push(
     `${plural(result.circuits.length, 'circuit')}: ${count('pass')} pass, ${count('fail')} fail, ${count('undetermined')} undetermined`,
   );
-  return `${lines.join('\n')}\n`;
+  return `${printable(lines.join('\n'))}\n`;
 }
 
 function circuitRow(c: CircuitResult): string[] {

@@ -45,8 +45,32 @@ async function existing(p: string): Promise<import('node:fs').Stats | null> {
   }
 }
 
+/** A filesystem refusal while preparing OUT, as a user error naming OUT. */
+function outProblem(outDir: string, err: unknown): Error {
+  const code = (err as NodeJS.ErrnoException)?.code;
+  const why: Record<string, string> = {
+    ENOTDIR: 'a part of its path is a file, not a folder',
+    EACCES: 'permission denied',
+    EPERM: 'permission denied',
+    EROFS: 'the filesystem is read-only',
+    ENOSPC: 'no space left on the device',
+    EEXIST: 'a part of its path is a file, not a folder',
+    ENAMETOOLONG: 'the path is too long',
+    ELOOP: 'too many symbolic links in the path',
+  };
+  return code && why[code] ? new OutputDirError(`${outDir}: cannot be used as the output folder: ${why[code]}`) : (err as Error);
+}
+
 /** Check OUT, then create a staging folder beside it. Nothing in OUT is changed. */
 export async function openStaging(outDir: string): Promise<Staging> {
+  try {
+    return await open(outDir);
+  } catch (err) {
+    throw err instanceof OutputDirError ? err : outProblem(outDir, err);
+  }
+}
+
+async function open(outDir: string): Promise<Staging> {
   const out = path.resolve(outDir);
   const parent = path.dirname(out);
   const base = path.basename(out);

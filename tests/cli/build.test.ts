@@ -50,4 +50,13 @@ describe('build', () => {
     expect(hasStack(r.stderr)).toBe(false);
     expect(existsSync(path.join(tmp.dir, 'clash-out'))).toBe(false);
   });
+
+  it('an OUT below a file is an input error naming OUT, not a crash', async () => {
+    expect((await run(['init', 'q'], tmp.dir)).code).toBe(0);
+    await writeFile(path.join(tmp.dir, 'plain-file'), 'not a folder\n');
+    const r = await run(['build', 'q', '--out', 'plain-file/out', '--quiet'], tmp.dir);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toMatch(/^error: .*plain-file\/out: cannot be used as the output folder: a part of its path is a file/);
+    expect(hasStack(r.stderr)).toBe(false);
+  });
 });

@@ -4,6 +4,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { run } from './run.js';
+import { printable } from '../../src/cli.js';
 
 interface Doc {
   project: { name: string; input_sha256: string };
@@ -122,5 +123,12 @@ describe('the IEC demo shows what it is built to show', () => {
     const doc = await solveJson('projects-demo/iec-400v');
     const others = doc.circuits.filter((c) => !['MSB-F07', 'ADM-C1'].includes(c.id));
     expect(others.filter((c) => c.verdict !== 'pass').map((c) => c.id)).toEqual([]);
+  });
+});
+
+describe('text for the terminal', () => {
+  it('shows control and bidirectional characters from the input as escapes, so an id cannot drive the terminal', () => {
+    expect(printable('MSB-Q1\u001b[31mRED\u0000\u202e')).toBe('MSB-Q1\\u001b[31mRED\\u0000\\u202e');
+    expect(printable('line one\nline two, Ω, 漢')).toBe('line one\nline two, Ω, 漢');
   });
 });
