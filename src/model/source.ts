@@ -107,6 +107,9 @@ interface Structure {
 }
 
 const MERGE_KEY = '<<';
+const TAG_PREFIX = 'tag:yaml.org,2002:';
+/** YAML types that read as binary data, sets or maps of non-text keys: refused rather than mistaken for a mapping. */
+const UNREAD_TAGS = new Set(['binary', 'set', 'omap', 'pairs'].map((t) => TAG_PREFIX + t));
 
 /**
  * One pass over the document's nodes, in document order and without recursion: duplicate keys (one set
@@ -156,6 +159,7 @@ function checkStructure(doc: Document.Parsed): Structure {
             keys.add(id);
           }
         }
+        if (isMap(key) || isSeq(key) || (isAlias(key) && !isScalar(resolve(key)))) syntax(key, 'a key must be a plain value, not a list or a mapping');
         if (key !== null && typeof key === 'object') list.push(key);
         if (value !== null && typeof value === 'object') list.push(value);
       }
@@ -174,6 +178,8 @@ function checkStructure(doc: Document.Parsed): Structure {
   const enter = (node: YamlNode, depth: number): void => {
     const anchor = (node as { anchor?: string }).anchor;
     if (anchor) anchors.set(anchor, node);
+    const tag = (node as { tag?: string }).tag;
+    if (tag !== undefined && UNREAD_TAGS.has(tag)) syntax(node, `the tag !!${tag.slice(TAG_PREFIX.length)} is not read here (binary data, sets and ordered maps have no place in a project file)`);
     if (depth > MAX_NESTING) limit(node, `collections are nested more than ${MAX_NESTING} levels deep`);
     stack.push({ node, children: out.limit === undefined ? childrenOf(node) : [], next: 0, size: 1, depth });
   };
@@ -263,14 +269,14 @@ function keepTextAsWritten(file: SourceFile, source: string): void {
         const child = pair.value;
         const childPath = [...path, key];
         if (isScalar(child)) {
-          if (TEXT_KEYS.has(key) && (typeof child.value === 'number' || typeof child.value === 'boolean')) {
+          if (TEXT_KEYS.has(key) && (typeof child.value === 'number' || typeof child.value === 'boolean' || child.value instanceof Date)) {
             setAt(file.value, childPath, scalarSource(child, source));
           } else if (key === 'date' && child.value instanceof Date) {
             setAt(file.value, childPath, child.value.toISOString().slice(0, 10));
           }
         } else if (isSeq(child) && TEXT_LIST_KEYS.has(key)) {
           child.items.forEach((item, index) => {
-            if (isScalar(item) && (typeof item.value === 'number' || typeof item.value === 'boolean')) {
+            if (isScalar(item) && (typeof item.value === 'number' || typeof item.value === 'boolean' || item.value instanceof Date)) {
               setAt(file.value, [...childPath, index], scalarSource(item, source));
             }
           });

@@ -111,6 +111,8 @@ const TYPE_WORDS: Record<string, string> = {
 /** A value as the author would recognise it in a message. */
 export function describeValue(value: unknown): string {
   if (value === null) return 'an empty value';
+  if (value instanceof Date) return `the date ${Number.isNaN(value.getTime()) ? '(invalid)' : value.toISOString().slice(0, 10)}`;
+  if (typeof value === 'number' && !Number.isFinite(value)) return `the value ${yamlNumber(value)}`;
   if (Array.isArray(value)) return 'a list';
   if (typeof value === 'object') return 'a mapping';
   if (typeof value === 'string') return `the text ${JSON.stringify(value)}`;
@@ -119,9 +121,15 @@ export function describeValue(value: unknown): string {
   return String(value);
 }
 
+/** A number that is not finite as YAML writes it (.inf, -.inf, .nan), which is also what 1e999 reads as. */
+function yamlNumber(value: number): string {
+  return Number.isNaN(value) ? '.nan' : value > 0 ? '.inf' : '-.inf';
+}
+
 function valueText(value: unknown): string | undefined {
   if (value === undefined) return undefined;
   if (typeof value === 'string') return value;
+  if (typeof value === 'number' && !Number.isFinite(value)) return yamlNumber(value);
   if (typeof value === 'number' || typeof value === 'boolean' || value === null) return String(value);
   return undefined;
 }

@@ -130,3 +130,25 @@ describe('fields as a mutation leaves them', () => {
     }
   });
 });
+
+describe('YAML types with no place in a project file', () => {
+  it('binary data, sets and ordered maps are YAML errors, not mappings of their bytes', () => {
+    for (const text of ['!!binary aGVsbG8=\n', 'id: C1\ncable: !!set { a, b }\n', '%YAML 1.1\n---\nid: C1\ncable: !!binary aGVsbG8=\n', 'id: !!omap [a: 1]\n']) {
+      const issue = parseIssue(text);
+      expect(issue.code, text).toBe('yaml-syntax');
+      expect(issue.message, text).toContain('is not read here');
+    }
+  });
+  it('a list or a mapping as a key is a YAML error (it would be stringified silently)', () => {
+    expect(parseIssue('? [a]\n: 1\nid: X\n').message).toContain('a key must be a plain value');
+    expect(parseIssue('x: &k [a]\n*k : 1\n').message).toContain('a key must be a plain value');
+  });
+  it('a number too large for a double reads as .inf in the message, as YAML writes it', () => {
+    const [issue] = loadIssues({ circuit: CIRCUIT.replace('length: 30 m', 'length: 30 m, parallel: 1e999') });
+    expect(issue!.message).toBe('the value .inf is not accepted here');
+  });
+  it('a YAML 1.1 date in a text field is kept as written', () => {
+    const outcome = parseYamlFile('circuits/c.yaml', '%YAML 1.1\n---\nid: C1\ndescription: 2020-01-01\n');
+    expect(outcome.ok && (outcome.file.value as { description: unknown }).description).toBe('2020-01-01');
+  });
+});
