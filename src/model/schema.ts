@@ -296,9 +296,25 @@ export interface ParsedCurve {
   points: CurvePoint[];
 }
 
-function toParsedCurve(scale: CurrentScale, valueFactor: number, points: ReadonlyArray<readonly [number, number]>): ParsedCurve {
+function toParsedCurve(
+  scale: CurrentScale,
+  valueFactor: number,
+  valueDimension: Dimension,
+  points: ReadonlyArray<readonly [number, number]>,
+  ctx: z.core.$RefinementCtx,
+): ParsedCurve {
   const currentFactor = scale.kind === 'amperes' ? scale.factor : 1;
-  return { scale, points: points.map(([current, value]) => ({ current: current * currentFactor, value: value * valueFactor })) };
+  const out = points.map(([current, value]) => ({ current: current * currentFactor, value: value * valueFactor }));
+  // In SI the points must lie in the ranges a written quantity may take (a point of 1e12 in "YA" would not).
+  out.forEach((p, i) => {
+    if (scale.kind === 'amperes' && !inRange('current', p.current)) {
+      fail(ctx, 'out-of-range', { actual: formatNumber(points[i]![0]), expected: `a current from ${DIMENSIONS.current.range.text} in the curve's unit` }, ['points', i, 0]);
+    } else if (!inRange(valueDimension, p.value)) {
+      const info = DIMENSIONS[valueDimension];
+      fail(ctx, 'out-of-range', { actual: formatNumber(points[i]![1]), expected: `${info.noun} from ${info.range.text} in the curve's unit` }, ['points', i, 1]);
+    }
+  });
+  return { scale, points: out };
 }
 
 export const tripCurveSchema = z
@@ -308,7 +324,7 @@ export const tripCurveSchema = z
     points: curvePoints,
   })
   .superRefine((curve, ctx) => checkCurve(curve.points, 'non-increasing', ctx))
-  .transform((curve) => toParsedCurve(curve.current_unit, curve.time_unit, curve.points));
+  .transform((curve, ctx) => toParsedCurve(curve.current_unit, curve.time_unit, 'time', curve.points, ctx));
 
 export const letThroughSchema = z
   .strictObject({
@@ -317,11 +333,13 @@ export const letThroughSchema = z
     points: curvePoints,
   })
   .superRefine((curve, ctx) => checkCurve(curve.points, 'non-decreasing', ctx))
-  .transform((curve) => toParsedCurve(curve.current_unit, curve.energy_unit, curve.points));
+  .transform((curve, ctx) => toParsedCurve(curve.current_unit, curve.energy_unit, 'joule-integral', curve.points, ctx));
 
 /** Instantaneous pickup: a multiple of the rating ("10 x In") or a current ("2.5 kA"). */
 export type Pickup = { kind: 'multiple-of-rating'; multiple: number } | { kind: 'amperes'; current: number };
 
+/** An instantaneous pickup of more than a million times the rating is a slip. */
+const MAX_MULTIPLE = 1e6;
 const pickupExpected = 'a multiple of the rating such as "10 x In" or a current such as "2.5 kA"';
 const pickup = withSpec(
   z
@@ -330,11 +348,13 @@ const pickup = withSpec(
       const multiple = parseMultipleOfRating(value);
       if (multiple !== undefined) {
         if (!(multiple > 0)) return fail(ctx, 'not-positive', { actual: value, expected: pickupExpected });
+        if (multiple > MAX_MULTIPLE) return fail(ctx, 'out-of-range', { actual: value, expected: `a multiple of the rating at most ${MAX_MULTIPLE} x In, or a current` });
         return { kind: 'multiple-of-rating', multiple };
       }
       const parsed = parseQuantity(value, 'current');
       if (!parsed.ok) return fail(ctx, parsed.problem, { actual: value, expected: pickupExpected, detail: parsed.detail });
       if (!(parsed.value > 0)) return fail(ctx, 'not-positive', { actual: value, expected: pickupExpected });
+      if (!inRange('current', parsed.value)) return fail(ctx, 'out-of-range', { actual: value, expected: `a current from ${DIMENSIONS.current.range.text}, or a multiple of the rating` });
       return { kind: 'amperes', current: parsed.value };
     })
     .meta({ description: pickupExpected, examples: ['10 x In', '2.5 kA'] }),

@@ -140,6 +140,8 @@ export function withoutConversionNoise(value: number): number {
 /** A unit alone ("kA", "ms", "A^2 s"): the SI value of one of it. */
 export function parseUnitFactor(unitText: string, dimension: Dimension): QuantityResult {
   if (unitText.trim() === '') return { ok: false, problem: 'missing-unit' };
+  // "10 A" is a quantity, not a unit: mathjs would read it as the unit A and drop the number.
+  if (/^\s*[+-]?(\d|\.\d)/.test(unitText)) return { ok: false, problem: 'unknown-unit', detail: unitText.trim() };
   const read = readUnit(unitText.trim());
   if (!read.ok) return { ok: false, problem: 'unknown-unit', detail: unitText };
   if (!read.unit.equalBase(referenceUnit(dimension))) {

@@ -152,3 +152,26 @@ describe('YAML types with no place in a project file', () => {
     expect(outcome.ok && (outcome.file.value as { description: unknown }).description).toBe('2020-01-01');
   });
 });
+
+describe('device data that would overflow the solve or its charts', () => {
+  const WITH_CURVE = `devices:
+  - id: D1
+    kind: mccb
+    rating: 32 A
+    instantaneous: { pickup: 10 x In }
+    trip_curve: { current_unit: A, time_unit: s, points: [[50, 100], [300, 0.1]] }
+`;
+  it('an instantaneous pickup of 1e308 x In is refused (it made the chart currents Infinity)', () => {
+    const issues = loadIssues({ devices: WITH_CURVE.replace('10 x In', '1e308 x In') });
+    expect(issues.map((i) => `${i.code} ${i.path}`)).toEqual(['out-of-range devices[0].instantaneous.pickup']);
+    expect(loadIssues({ devices: WITH_CURVE.replace('10 x In', '1e300 kA') }).map((i) => i.code)).toEqual(['out-of-range']);
+  });
+  it('a number in a curve unit is refused, not dropped ("10 A" read as A)', () => {
+    const issues = loadIssues({ devices: WITH_CURVE.replace('current_unit: A', 'current_unit: 10 A') });
+    expect(issues.map((i) => `${i.code} ${i.path}`)).toEqual(['unknown-unit devices[0].trip_curve.current_unit']);
+  });
+  it('curve points out of range once in SI are refused at the point', () => {
+    const issues = loadIssues({ devices: WITH_CURVE.replace('time_unit: s', 'time_unit: Ys') });
+    expect(issues.map((i) => `${i.code} ${i.path}`)).toEqual(['out-of-range devices[0].trip_curve.points[0][1]', 'out-of-range devices[0].trip_curve.points[1][1]']);
+  });
+});
