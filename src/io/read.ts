@@ -83,7 +83,7 @@ function listYaml(root: string, folder: string, problems: ReadProblem[], seen: S
       problems.push({ kind: 'read-error', file: relative, detail: errorText(error) });
       continue;
     }
-    if (info.isDirectory()) found.push(...(listYaml(root, relative, problems, seen)));
+    if (info.isDirectory()) for (const file of listYaml(root, relative, problems, seen)) found.push(file); // no spread: a folder may hold more names than a call takes arguments
     else if (info.isFile() && name.endsWith('.yaml')) found.push(relative);
     else if (info.isFile() && name.endsWith('.yml')) {
       problems.push({ kind: 'ignored-file', file: relative, detail: 'rename it to .yaml to have it read' });
@@ -115,7 +115,7 @@ export async function readProjectFolder(dir: string): Promise<ProjectFolder> {
   const seen = new Set<string>();
   for (const folder of INPUT_FOLDERS) {
     if (isDirectory(path.join(absolute, folder))) {
-      relativePaths.push(...(listYaml(absolute, folder, problems, seen)));
+      for (const file of listYaml(absolute, folder, problems, seen)) relativePaths.push(file);
     }
   }
   relativePaths.sort(compare);

@@ -12,6 +12,8 @@ import {
   visit,
   type Document,
   type Node as YamlNode,
+  type Pair,
+  type YAMLMap,
 } from 'yaml';
 import type { Issue } from './issues.js';
 import { problem } from './messages.js';
@@ -328,6 +330,23 @@ function resolveAlias(file: SourceFile, node: unknown): unknown {
   return file.aliasTargets?.get(node) ?? node.resolve(file.doc);
 }
 
+const pairIndexes = new WeakMap<object, Map<string, Pair>>();
+
+/** The first pair of a mapping with this key; a large mapping is indexed once, so that an issue per key stays linear. */
+function pairFor(map: YAMLMap, key: string): Pair | undefined {
+  const matches = (p: unknown): p is Pair => isPair(p) && isScalar(p.key) && String(p.key.value) === key;
+  if (map.items.length <= 16) return map.items.find(matches);
+  let index = pairIndexes.get(map);
+  if (index === undefined) {
+    index = new Map();
+    for (const p of map.items) {
+      if (isPair(p) && isScalar(p.key) && !index.has(String(p.key.value))) index.set(String(p.key.value), p);
+    }
+    pairIndexes.set(map, index);
+  }
+  return index.get(key);
+}
+
 /**
  * Where a field path points in the file. A path that does not exist (a missing field) points at
  * its deepest existing parent: the parent's key where it has one, else the parent itself.
@@ -340,7 +359,7 @@ export function locate(file: SourceFile, path: readonly PathSegment[], options: 
     const node = resolveAlias(file, current.node);
     let next: Located | undefined;
     if (isMap(node)) {
-      const pair = node.items.find((p) => isPair(p) && isScalar(p.key) && String(p.key.value) === String(segment));
+      const pair = pairFor(node, String(segment));
       if (pair !== undefined) {
         const keyNode = pair.key as YamlNode;
         next = { node: (pair.value as YamlNode | null) ?? keyNode, keyNode };

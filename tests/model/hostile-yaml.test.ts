@@ -175,3 +175,12 @@ describe('device data that would overflow the solve or its charts', () => {
     expect(issues.map((i) => `${i.code} ${i.path}`)).toEqual(['out-of-range devices[0].trip_curve.points[0][1]', 'out-of-range devices[0].trip_curve.points[1][1]']);
   });
 });
+
+describe('many problems in one file', () => {
+  it('5000 unknown fields of one circuit are each reported at their own line (large mappings are indexed)', () => {
+    const extra = Array.from({ length: 5000 }, (_, i) => `k${i}: ${i}\n`).join('');
+    const issues = loadIssues({ circuit: CIRCUIT + extra });
+    expect(issues).toHaveLength(5000);
+    expect(issues.every((i) => i.code === 'unknown-field' && i.path === `k${i.line - 5}` && i.col === 1)).toBe(true);
+  });
+});
