@@ -165,7 +165,8 @@ const minFaultTemperature = withSpec(
       const expected = '"final", "operating" or a temperature such as "160 degC"';
       const parsed = parseQuantity(value, 'temperature');
       if (!parsed.ok) return fail(ctx, parsed.problem === 'not-a-number' ? 'invalid-value' : parsed.problem, { actual: value, expected, detail: parsed.detail, allowed: ['final', 'operating', '160 degC'] });
-      if (!(parsed.value > -273.15 && parsed.value <= 1000)) return fail(ctx, 'out-of-range', { actual: value, expected: 'a temperature above absolute zero and at most 1000 degC' });
+      // R = R_20 [1 + 0.004 (theta - 20)] reaches zero at -230 degC: below it a conductor would have negative resistance.
+      if (!(parsed.value > -230 && parsed.value <= 1000)) return fail(ctx, 'out-of-range', { actual: value, expected: 'a conductor temperature above -230 degC (where the resistance law reaches zero) and at most 1000 degC' });
       return { mode: 'fixed', celsius: parsed.value };
     })
     .meta({ description: '"final", "operating", or a conductor temperature such as "160 degC"', examples: ['final', 'operating', '160 degC'] }),

@@ -184,3 +184,11 @@ describe('many problems in one file', () => {
     expect(issues.every((i) => i.code === 'unknown-field' && i.path === `k${i.line - 5}` && i.col === 1)).toBe(true);
   });
 });
+
+describe('temperatures', () => {
+  it('a minimum-fault conductor temperature at or below -230 degC (zero resistance by the linear law) is refused', () => {
+    const setting = (t: string) => ({ project: PROJECT.replace('system_voltage: 400 V', `system_voltage: 400 V, min_fault_conductor_temperature: ${t}`) });
+    expect(loadIssues(setting('-230 degC')).map((i) => `${i.code} ${i.path}`)).toEqual(['out-of-range settings.min_fault_conductor_temperature']);
+    expect(loadIssues(setting('-40 degC'))).toEqual([]);
+  });
+});
