@@ -17,7 +17,7 @@ export class OutputDirError extends Error {
 const OWN_FILE = /^(?:[A-Za-z0-9._-]+\.pdf|results\.json)$/;
 /** The build cache's folder in OUT (src/report/cache.ts), and the names it holds. */
 export const CACHE_FOLDER = '.faultsheet-cache';
-const CACHE_FILE = /^manifest\.json$/;
+const CACHE_FILE = /^(?:manifest\.json|summary-[0-9a-f]{16}\.pdf)$/;
 
 export interface Staging {
   readonly dir: string;
@@ -102,19 +102,22 @@ async function open(outDir: string): Promise<Staging> {
     if (!inCache && (name !== path.basename(name) || !OWN_FILE.test(name))) throw new Error(`internal error: bad output name ${name}`);
     return path.join(dir, name);
   };
+  const cacheFolderFor = async (name: string): Promise<void> => {
+    if (cacheMade || !name.startsWith(`${CACHE_FOLDER}/`)) return;
+    await mkdir(path.join(dir, CACHE_FOLDER), { mode: 0o755 });
+    cacheMade = true;
+  };
   return {
     dir,
     outDir: out,
     async write(name, data) {
       const file = target(name);
-      if (name.startsWith(`${CACHE_FOLDER}/`) && !cacheMade) {
-        await mkdir(path.join(dir, CACHE_FOLDER), { mode: 0o755 });
-        cacheMade = true;
-      }
+      await cacheFolderFor(name);
       await writeFile(file, data, { flag: 'wx' });
     },
     async adopt(name, from) {
       const file = target(name);
+      await cacheFolderFor(name);
       try {
         await link(from, file);
       } catch {

@@ -15,7 +15,11 @@ import { renderSheetsInPool, workerCount } from './pool.js';
 import { defaultRenderer, type Renderer } from './render.js';
 import { projectDate } from './sheet.js';
 import { projectTemplates, renderSheet } from './sheets.js';
-import { summaryDocument } from './summary.js';
+import { summaryPartDocument, summaryParts } from './summary.js';
+import type { TemplateSet } from './templates.js';
+import { stableJson } from './fingerprint.js';
+import { createHash } from 'node:crypto';
+import { existsSync } from 'node:fs';
 import { unmark } from './typeset.js';
 
 export { OutputPlanError, sheetFileName, planOutputs } from './plan.js';
@@ -53,6 +57,8 @@ export interface BuildReport {
   files: string[]; // OUT joined with each name
   rendered: number;
   kept: number;
+  /** Parts of the summary laid out by this build (the others were taken over), and all its parts. */
+  summaryParts: { laidOut: number; total: number };
 }
 
 /** Write the dossier of `project` into `outDir`. */
@@ -108,32 +114,31 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     }
 
     clock(`sheets (${threads > 0 ? `${threads} worker threads` : 'main thread'})`);
-    // The summary's index gives each sheet's first page in the dossier, which depends on the
-    // summary's own length: lay it out until the page count it assumed is the one it has (the last
-    // build's count is the first guess, so an unchanged length is laid out once).
+    // The summary, laid out part by part (summary.ts summaryParts), each part cached like a sheet,
+    // then joined into summary.pdf.
     const renderer = opts.renderer ?? defaultRenderer();
     const labels = templates.labels('summary/labels.hbs');
-    let summaryPages = previous?.summaryPages && previous.summaryPages >= 1 ? previous.summaryPages : 1;
-    let summary: { bytes: Buffer; pages: number } | null = null;
-    let summaryLayouts = 0;
-    for (let attempt = 0; attempt < 4 && !summary; attempt++) {
-      signal?.throwIfAborted();
-      const firstPage = new Map<string, number>();
-      let next = summaryPages + 1;
-      result.circuits.forEach((c, i) => {
-        firstPage.set(c.id, next);
-        next += pages[i];
-      });
-      const bytes = await renderer.pdf(summaryDocument(project, result, { templates, dossierPages: firstPage }));
-      summaryLayouts++;
-      const got = pdfPageCount(bytes);
-      if (got === summaryPages) summary = { bytes, pages: got };
-      else summaryPages = got;
-    }
-    if (!summary) throw new Error('internal error: the summary page count does not settle');
-    clock(`summary (${summaryLayouts} layout${summaryLayouts === 1 ? '' : 's'}, ${summary.pages} pages)`);
-    await staging.write(SUMMARY_FILE, summary.bytes);
+    const summary = await layOutSummary(project, result, { templates, renderer, projectPrint, pages, previous, outDir: staging.outDir, signal });
+    for (const part of summary.parts)
+      if (part.bytes) await staging.write(`${CACHE_DIR}/${part.file}`, part.bytes);
+      else await staging.adopt(`${CACHE_DIR}/${part.file}`, path.join(staging.outDir, CACHE_DIR, part.file));
     manifest.summaryPages = summary.pages;
+    manifest.summaryParts = summary.parts.map(({ key, pages, file }) => ({ key, pages, file }));
+    const partPath = (file: string): string => staging.pathOf(`${CACHE_DIR}/${file}`);
+    writeDossier(
+      staging.pathOf(SUMMARY_FILE),
+      { path: partPath(summary.parts[0].file), pages: summary.parts[0].pages, title: '' },
+      summary.parts.slice(1).map((p) => ({ path: partPath(p.file), pages: p.pages, title: '' })),
+      {
+        title: `${unmark(project.meta.name)} — ${labels['document']}`,
+        subject: labels['info.subject'],
+        date: projectDate(project.meta.date),
+        summaryTitle: '',
+        sheetsTitle: '',
+        outline: false,
+      },
+    );
+    clock(`summary (${summary.laidOut} of ${summary.parts.length} parts laid out, ${summary.pages} pages)`);
     signal?.throwIfAborted();
 
     writeDossier(
@@ -160,9 +165,70 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
     await staging.commit();
     clock('results, cache and swap');
-    return { files: plan.files.map((f) => path.join(outDir, f)), rendered: toRender.length, kept: total - toRender.length };
+    return {
+      files: plan.files.map((f) => path.join(outDir, f)),
+      rendered: toRender.length,
+      kept: total - toRender.length,
+      summaryParts: { laidOut: summary.laidOut, total: summary.parts.length },
+    };
   } catch (err) {
     await staging.discard();
     throw err;
   }
+}
+
+interface SummaryPart {
+  key: string;
+  pages: number;
+  file: string; // in OUT/.faultsheet-cache
+  bytes?: Buffer; // laid out by this build; otherwise taken over from the previous one
+}
+
+/**
+ * Lay out the summary's parts. The index prints each sheet's dossier page, which depends on the
+ * summary's own length: the parts are laid out until the page count they assumed is the one they
+ * have (the last build's count is the first guess, so an unchanged length is settled at once). A part
+ * whose key (its content, its page numbers, the project header, the tool and templates) was laid out
+ * by the last build is taken over.
+ */
+async function layOutSummary(
+  project: Project,
+  result: ProjectResult,
+  ctx: { templates: TemplateSet; renderer: Renderer; projectPrint: string; pages: number[]; previous: Manifest | null; outDir: string; signal?: AbortSignal },
+): Promise<{ pages: number; parts: SummaryPart[]; laidOut: number }> {
+  const old = new Map((ctx.previous?.summaryParts ?? []).map((p) => [p.key, p]));
+  const made = new Map<string, SummaryPart>();
+  const header = stableJson({ meta: project.meta, signoff: project.signoff, circuits: result.circuits.length });
+  let total = ctx.previous?.summaryPages && ctx.previous.summaryPages >= 1 ? ctx.previous.summaryPages : 1;
+  let laidOut = 0;
+  for (let attempt = 0; attempt < 4; attempt++) {
+    const firstPage = new Map<string, number>();
+    let next = total + 1;
+    result.circuits.forEach((c, i) => {
+      firstPage.set(c.id, next);
+      next += ctx.pages[i];
+    });
+    const opts = { templates: ctx.templates, dossierPages: firstPage };
+    const parts: SummaryPart[] = [];
+    let offset = 0;
+    for (const content of summaryParts(project, result, opts)) {
+      ctx.signal?.throwIfAborted();
+      const key = createHash('sha256').update(ctx.projectPrint).update(header).update(`${offset}/${total}\n`).update(stableJson(content)).digest('hex');
+      let part = made.get(key);
+      const before = old.get(key);
+      if (!part && before && before.pages >= 1 && /^summary-[0-9a-f]{16}\.pdf$/.test(before.file) && existsSync(path.join(ctx.outDir, CACHE_DIR, before.file)))
+        part = { key, pages: before.pages, file: before.file };
+      if (!part) {
+        const bytes = await ctx.renderer.pdf(summaryPartDocument(project, result, opts, content, { offset, total }));
+        part = { key, pages: pdfPageCount(bytes), file: `summary-${key.slice(0, 16)}.pdf`, bytes };
+        laidOut++;
+      }
+      made.set(key, part);
+      parts.push(part);
+      offset += part.pages;
+    }
+    if (offset === total) return { pages: total, parts, laidOut };
+    total = offset;
+  }
+  throw new Error('internal error: the summary page count does not settle');
 }

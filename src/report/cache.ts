@@ -15,10 +15,11 @@ import { createRequire } from 'node:module';
 import type { Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 import type { TemplateSet } from './templates.js';
+import { sheetInputHash } from './fingerprint.js';
 
 export const CACHE_DIR = '.faultsheet-cache';
 export const MANIFEST_FILE = 'manifest.json';
-const FORMAT = 1;
+const FORMAT = 2;
 
 export interface CachedSheet {
   key: string;
@@ -31,17 +32,19 @@ export interface Manifest {
   format: typeof FORMAT;
   sheets: Record<string, CachedSheet>; // by sheet file name
   summaryPages: number;
+  /** The summary's parts in order (build.ts), each a PDF in the cache folder. */
+  summaryParts: Array<{ key: string; pages: number; file: string }>;
 }
 
 export function emptyManifest(): Manifest {
-  return { format: FORMAT, sheets: {}, summaryPages: 1 };
+  return { format: FORMAT, sheets: {}, summaryPages: 1, summaryParts: [] };
 }
 
 /** The manifest of a previous build in `outDir`, or null (none, or not readable as one). */
 export function readManifest(outDir: string): Manifest | null {
   try {
     const m = JSON.parse(readFileSync(path.join(outDir, CACHE_DIR, MANIFEST_FILE), 'utf8')) as Manifest;
-    if (m?.format !== FORMAT || typeof m.sheets !== 'object' || m.sheets === null) return null;
+    if (m?.format !== FORMAT || typeof m.sheets !== 'object' || m.sheets === null || !Array.isArray(m.summaryParts)) return null;
     return m;
   } catch {
     return null;
@@ -94,33 +97,21 @@ export function templatesFingerprint(templates: TemplateSet): string {
   return h.digest('hex');
 }
 
-/** What every sheet of the project shows besides its own circuit. */
+/**
+ * What every sheet of the project shows besides what it is computed from (fingerprint.ts): the tool
+ * and the templates. A project template that prints the whole project's input hash (project.hash)
+ * makes every sheet depend on every input file, and the hash is then part of every key.
+ */
 export function projectFingerprint(project: Project, templates: TemplateSet): string {
+  const usesProjectHash = [...templates.files().overrides.values()].some((text) => /project\.hash/.test(text));
   return createHash('sha256')
     .update(toolFingerprint())
     .update(templatesFingerprint(templates))
-    .update(stableJson({ meta: project.meta, settings: project.settings, signoff: project.signoff, assumptions: project.assumptions, defaults: project.defaults }))
+    .update(usesProjectHash ? project.inputSha256 : '')
     .digest('hex');
 }
 
-/** The key of one sheet: the project's fingerprint and everything of its own circuit. */
+/** The key of one sheet: the project's fingerprint (tool, templates), its place, and what it is computed from. */
 export function sheetKey(projectPrint: string, project: Project, cr: CircuitResult, index: number, count: number): string {
-  const circuit = project.circuits.find((c) => c.id === cr.id);
-  const device = project.devices.find((d) => d.id === cr.device);
-  const supply = project.supplies.find((s) => s.id === cr.supply);
-  return createHash('sha256')
-    .update(projectPrint)
-    .update(stableJson({ index, count, circuit, device, supply, supplyIndex: supply ? project.supplies.indexOf(supply) : -1, result: cr }))
-    .digest('hex');
-}
-
-/** JSON that also writes Maps, Dates and non-finite numbers distinctly (for hashing, not for reading back). */
-function stableJson(v: unknown): string {
-  return JSON.stringify(v, (_k, x: unknown) => {
-    if (x instanceof Map) return { $map: [...x.entries()] };
-    if (x instanceof Set) return { $set: [...x.values()] };
-    if (typeof x === 'number' && !Number.isFinite(x)) return `$num:${String(x)}`;
-    if (typeof x === 'bigint') return `$big:${x.toString()}`;
-    return x;
-  });
+  return createHash('sha256').update(projectPrint).update(`${index}/${count}\n`).update(sheetInputHash(project, cr)).digest('hex');
 }

@@ -31,6 +31,8 @@ export interface DossierMeta {
   sheetsTitle: string;
   /** "Dossier page {n} of {total}", stamped under each page's footer. */
   pageLabel?: string;
+  /** Write the outline (bookmarks); default true. summary.pdf, joined from its parts, has none. */
+  outline?: boolean;
 }
 
 /** Buffered sequential writes to a file, tracking the offset of each object for the xref table. */
@@ -125,7 +127,8 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
 
   const catalogNum = sink.allocate();
   const pagesNum = sink.allocate();
-  const outlinesNum = sink.allocate();
+  const outline = meta.outline !== false;
+  const outlinesNum = outline ? sink.allocate() : 0;
   const infoNum = sink.allocate();
   const stamp = meta.pageLabel ? StandardFontEmbedder.for(StandardFonts.Helvetica as unknown as Parameters<typeof StandardFontEmbedder.for>[0]) : null;
   let fontNum = 0;
@@ -233,11 +236,13 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
   }
 
   sink.object(pagesNum, `<< /Type /Pages /Kids [${kids.map((k) => `${k} 0 R`).join(' ')}] /Count ${kids.length} >>`);
-  writeOutline(sink, outlinesNum, [
-    { title: meta.summaryTitle, page: firstPages[0], children: [] },
-    ...(sheets.length ? [{ title: meta.sheetsTitle, page: firstPages[1], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[i + 1], children: [] })) }] : []),
-  ]);
-  sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R /Outlines ${outlinesNum} 0 R /PageMode /UseOutlines >>`);
+  if (outline) {
+    writeOutline(sink, outlinesNum, [
+      { title: meta.summaryTitle, page: firstPages[0], children: [] },
+      ...(sheets.length ? [{ title: meta.sheetsTitle, page: firstPages[1], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[i + 1], children: [] })) }] : []),
+    ]);
+    sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R /Outlines ${outlinesNum} 0 R /PageMode /UseOutlines >>`);
+  } else sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R >>`);
   const date = pdfDate(meta.date);
   sink.object(infoNum, `<< /Title ${textString(meta.title)} /Subject ${textString(meta.subject)} /Creator (faultsheet) /Producer (faultsheet) /CreationDate ${date} /ModDate ${date} >>`);
 

@@ -84,7 +84,10 @@ export function blocksToContent(rendered: Rendered, slots: Record<string, Conten
   let bullets: Block[] = [];
   const flushBullets = (): void => {
     if (bullets.length === 0) return;
-    out.push({ ul: bullets.map((b) => ({ text: t(b.text, literals) })), margin: [4, 0, 0, 4] });
+    const list: Content = { ul: bullets.map((b) => ({ text: t(b.text, literals) })), margin: [4, 0, 0, 4] };
+    // a long list may run over pages: it is not kept whole with its heading (an unbreakable block
+    // taller than a page would not be printed at all)
+    out.push(bullets.length > 8 ? breakable(list) : list);
     bullets = [];
   };
   for (const b of blocks) {
@@ -324,6 +327,10 @@ export interface DocumentFrame {
   partLabel: string; // title block: the document's place in the package
   part: string;
   footerName: string; // before "sheet n of N" in the footer
+  /** The title block's fingerprint cell: a sheet's own input hash; the summary points to its cover. */
+  hash: { label: string; value: string };
+  /** A document laid out in parts: its pages are numbered from offset + 1 and out of total. */
+  pageNumbers?: { offset: number; total: number };
 }
 
 /**
@@ -332,6 +339,8 @@ export interface DocumentFrame {
  */
 export function packageDocument(project: Project, labels: Record<string, string>, frame: DocumentFrame, content: Content[]): TDocumentDefinitions {
   const date = projectDate(project.meta.date);
+  const numbered = frame.pageNumbers;
+  const pageOf = (pattern: string, page: number, pages: number): string => (numbered ? pageText(pattern, numbered.offset + page, numbered.total) : pageText(pattern, page, pages));
   return {
     info: { title: frame.title, subject: frame.subject, creator: 'faultsheet', producer: 'faultsheet', creationDate: date, modDate: date },
     pageSize: 'A4',
@@ -346,11 +355,11 @@ export function packageDocument(project: Project, labels: Record<string, string>
         date: project.meta.date,
         subjectLabel: frame.subjectLabel,
         subject: frame.subjectText,
-        pageLabel: pageText(labels['pageOf']!, page, pages),
+        pageLabel: pageOf(labels['pageOf']!, page, pages),
         partLabel: frame.partLabel,
         part: frame.part,
-        hashLabel: labels['inputHash']!,
-        hash: project.inputSha256.slice(0, 12),
+        hashLabel: frame.hash.label,
+        hash: frame.hash.value,
         signoff: [
           { label: labels['prepared']!, name: project.signoff.preparedBy?.name ?? '' },
           { label: labels['checked']!, name: project.signoff.checkedBy?.name ?? '' },
@@ -362,7 +371,7 @@ export function packageDocument(project: Project, labels: Record<string, string>
       margin: [MARGIN_X, 12, MARGIN_X, 0],
       columns: [
         { text: t(labels['footer']!), style: 'small', width: '*' },
-        { text: `${frame.footerName} · ${pageText(labels['sheetOf']!, page, pages)}`, style: 'small', alignment: 'right', width: 'auto' },
+        { text: `${frame.footerName} · ${pageOf(labels['sheetOf']!, page, pages)}`, style: 'small', alignment: 'right', width: 'auto' },
       ],
     }),
     content,

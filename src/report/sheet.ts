@@ -24,6 +24,7 @@ import {
   t,
 } from './layout.js';
 import { CHART_HEIGHT, CHART_WIDTH } from './charts.js';
+import { sheetInputHash } from './fingerprint.js';
 
 export const SHEET_IMAGES = { energy: 'chart-energy', time: 'chart-time', length: 'chart-length' } as const;
 
@@ -385,7 +386,10 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
   const statusWord = (s: string): string => labels[`status.${s}`] ?? s.toUpperCase();
 
   const none = labels['none'] ?? 'none';
+  const sheetHash = sheetInputHash(project, cr);
   const context = {
+    // what this sheet is computed from (fingerprint.ts); project.hash is every input file's
+    sheet: { hash: sheetHash, hashShort: sheetHash.slice(0, 12) },
     project: {
       ...projectContext(project),
       criterionText: criterionText(project),
@@ -586,6 +590,7 @@ export function sheetDocument(project: Project, cr: CircuitResult, opts: SheetOp
       partLabel: labels['calculation']!,
       part: pageText(labels['calculationOf']!, opts.index, opts.count),
       footerName: unmark(cr.id),
+      hash: { label: labels['sheetHash'] ?? labels['inputHash']!, value: sheetHash.slice(0, 12) },
     },
     content,
   );

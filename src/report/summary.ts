@@ -85,8 +85,133 @@ function treeCell(row: TreeRow): TableCell {
   return { columns: [...cols, label], columnGap: 0, style: 'td' } as TableCell;
 }
 
-/** The pdfmake document definition of summary.pdf. */
+/**
+ * How much of a page a part of the index or of the list of checks may fill, in points, by an
+ * estimate of each row's lines (a part that runs over only takes a second page). The estimate
+ * depends on the row's own text alone, so an edit to one circuit moves no boundary unless it
+ * changes how many lines that circuit's row takes.
+ */
+export const SUMMARY_PART_HEIGHT = { index: 650, indexFirst: 590, failing: 650, failingFirst: 610 };
+
+const textLength = (n: unknown): number => {
+  if (typeof n === 'string') return n.length;
+  if (Array.isArray(n)) return n.reduce((a: number, x) => a + textLength(x), 0);
+  if (n && typeof n === 'object') {
+    const o = n as { text?: unknown; stack?: unknown };
+    return textLength(o.text) + textLength(o.stack);
+  }
+  return 0;
+};
+
+/** Estimated height of an index row, from the characters each column holds a line (7 pt text). */
+function indexRowHeight(row: TableCell[]): number {
+  const perLine = [6, 15, 44, 15, 16, 12, 12, 6];
+  const lines = row.map((cell, i) => {
+    const stack = (cell as { stack?: unknown[] }).stack;
+    if (stack) return stack.reduce((a: number, x) => a + Math.max(1, Math.ceil(textLength(x) / perLine[i])), 0);
+    return Math.max(1, Math.ceil(textLength(cell) / perLine[i]));
+  });
+  return 5 + 9.6 * Math.max(...lines);
+}
+
+/** Estimated height of a bullet of the list of checks (about 115 characters a line). */
+const bulletHeight = (item: unknown): number => 3 + 9.6 * Math.max(1, Math.ceil(textLength(item) / 110));
+
+/** Cut `items` into runs whose estimated heights stay within `first`, then `rest`, points. */
+function cut<T>(items: T[], height: (x: T) => number, first: number, rest: number): T[][] {
+  const runs: T[][] = [[]];
+  let used = 0;
+  for (const item of items) {
+    const h = height(item);
+    const room = runs.length === 1 ? first : rest;
+    if (runs[runs.length - 1].length > 0 && used + h > room) {
+      runs.push([]);
+      used = 0;
+    }
+    runs[runs.length - 1].push(item);
+    used += h;
+  }
+  return runs;
+}
+
+/**
+ * The summary in parts, each laid out as a document of its own and starting a page: the cover and
+ * the board tree; the index, about a page a part; the checks that do not pass, about a page a part;
+ * the assumptions with the last. Parts are laid out and cached one by one (build.ts), so an edit to
+ * one circuit lays out again only the parts that show it. `summaryPartDocument` makes a part a document.
+ */
+export function summaryParts(project: Project, result: ProjectResult, opts: SummaryOptions): Content[][] {
+  const c = summaryContent(project, result, opts);
+  const parts: Content[][] = [c.front];
+  cut(c.indexRows, indexRowHeight, SUMMARY_PART_HEIGHT.indexFirst, SUMMARY_PART_HEIGHT.index).forEach((rows, i) => {
+    const table = c.indexTable(rows);
+    parts.push(i === 0 ? c.indexSection(table) : [table]);
+  });
+  // the list of checks: its bulleted lists are cut into runs of about a page
+  let part: Content[] = [];
+  for (const node of [...c.failing, ...c.assumptions]) {
+    const items = (node as { ul?: Content[] }).ul;
+    if (!items) {
+      part.push(node);
+      continue;
+    }
+    cut(items, bulletHeight, SUMMARY_PART_HEIGHT.failingFirst, SUMMARY_PART_HEIGHT.failing).forEach((run, i) => {
+      if (i > 0) {
+        parts.push(part);
+        part = [];
+      }
+      part.push({ ...(node as object), ul: run } as Content);
+    });
+  }
+  parts.push(part);
+  return parts;
+}
+
+/** One part of the summary as a document, its pages numbered from offset + 1 out of total. */
+export function summaryPartDocument(project: Project, result: ProjectResult, opts: SummaryOptions, content: Content[], pageNumbers: { offset: number; total: number }): TDocumentDefinitions {
+  return summaryFrame(project, result, opts, content, pageNumbers);
+}
+
+/** The whole summary as one document definition (the parts one after the other). */
 export function summaryDocument(project: Project, result: ProjectResult, opts: SummaryOptions): TDocumentDefinitions {
+  const parts = summaryParts(project, result, opts);
+  const content = parts.flatMap((p, i) => (i === 0 ? p : [{ text: '', pageBreak: 'before' } as Content, ...p]));
+  return summaryFrame(project, result, opts, content);
+}
+
+function summaryFrame(project: Project, result: ProjectResult, opts: SummaryOptions, content: Content[], pageNumbers?: { offset: number; total: number }): TDocumentDefinitions {
+  const labels = opts.templates.labels('summary/labels.hbs');
+  const sheetLabels = opts.templates.labels('sheet/labels.hbs');
+  return packageDocument(
+    project,
+    sheetLabels,
+    {
+      title: `${unmark(project.meta.name)} — ${labels['document']}`,
+      subject: labels['info.subject']!,
+      subjectLabel: labels['documentLabel']!,
+      subjectText: labels['document']!,
+      partLabel: labels['circuitsLabel']!,
+      part: String(result.circuits.length),
+      footerName: labels['document']!,
+      // the title block of every page would otherwise change with every edit to any file: the
+      // project's input hash is printed in full on the cover
+      hash: { label: sheetLabels['inputHash']!, value: labels['titleHash'] ?? 'on the cover' },
+      pageNumbers,
+    },
+    content,
+  );
+}
+
+interface SummaryContent {
+  front: Content[];
+  indexRows: TableCell[][];
+  indexTable: (rows: TableCell[][]) => Content;
+  indexSection: (table: Content) => Content[];
+  failing: Content[];
+  assumptions: Content[];
+}
+
+function summaryContent(project: Project, result: ProjectResult, opts: SummaryOptions): SummaryContent {
   const tpl = opts.templates;
   const labels = tpl.labels('summary/labels.hbs');
   const sheetLabels = tpl.labels('sheet/labels.hbs');
@@ -188,49 +313,36 @@ export function summaryDocument(project: Project, result: ProjectResult, opts: S
     { align: ['left', 'right', 'right', 'right', 'right', 'left'] },
   );
 
-  const index = dataTable(
-    [18, 60, '*', 60, 62, 52, 64, 24],
-    ['No.', labels['index.circuit'], labels['index.description'], labels['index.fromTo'], labels['index.device'], labels['index.cable'], labels['index.verdict'], labels['index.page']],
-    ordered.map((c) => {
-      const circuit = project.circuits.find((x) => x.id === c.id);
-      const cable = circuit ? `${circuit.cable.size.label}${circuit.cable.parallel > 1 ? ` x ${circuit.cable.parallel}` : ''}, ${fmt.metres(circuit.cable.length)}` : '';
-      const bad = c.checks.filter((k) => k.status !== 'pass').map((k) => sheetLabels[`short.${k.name}`] ?? k.name);
-      const page = opts.dossierPages?.get(c.id);
-      return [
-        String(numberOf.get(c.id) ?? ''),
-        // a link to the sheet's own file; in the dossier it becomes a jump to the sheet's first page
-        { text: unmark(c.id), bold: true, style: 'td', link: sheetFileName(c.id), color: COLOURS.accent } as TableCell,
-        { text: unmark(c.description), style: 'td' } as TableCell,
-        { text: `${unmark(c.from)} → ${c.to ? unmark(c.to) : '—'}`, style: 'td' } as TableCell,
-        { text: unmark(c.device), style: 'td' } as TableCell,
-        { text: t(cable), style: 'td' } as TableCell,
-        { stack: [statusCell(c.verdict, sheetLabels) as Content, ...(bad.length ? [{ text: bad.join(', '), style: 'small' }] : [])], style: 'td' } as TableCell,
-        { text: page != null ? String(page) : '', alignment: 'right', style: 'td', link: sheetFileName(c.id) } as TableCell,
-      ];
-    }),
-  );
+  const indexHeader = ['No.', labels['index.circuit'], labels['index.description'], labels['index.fromTo'], labels['index.device'], labels['index.cable'], labels['index.verdict'], labels['index.page']];
+  const circuitById = new Map(project.circuits.map((x) => [x.id, x]));
+  const indexRows = ordered.map((c) => {
+    const circuit = circuitById.get(c.id);
+    const cable = circuit ? `${circuit.cable.size.label}${circuit.cable.parallel > 1 ? ` x ${circuit.cable.parallel}` : ''}, ${fmt.metres(circuit.cable.length)}` : '';
+    const bad = c.checks.filter((k) => k.status !== 'pass').map((k) => sheetLabels[`short.${k.name}`] ?? k.name);
+    const page = opts.dossierPages?.get(c.id);
+    return [
+      String(numberOf.get(c.id) ?? ''),
+      // a link to the sheet's own file; in the dossier it becomes a jump to the sheet's first page
+      { text: unmark(c.id), bold: true, style: 'td', link: sheetFileName(c.id), color: COLOURS.accent } as TableCell,
+      { text: unmark(c.description), style: 'td' } as TableCell,
+      { text: `${unmark(c.from)} → ${c.to ? unmark(c.to) : '—'}`, style: 'td' } as TableCell,
+      { text: unmark(c.device), style: 'td' } as TableCell,
+      { text: t(cable), style: 'td' } as TableCell,
+      { stack: [statusCell(c.verdict, sheetLabels) as Content, ...(bad.length ? [{ text: bad.join(', '), style: 'small' }] : [])], style: 'td' } as TableCell,
+      { text: page != null ? String(page) : '', alignment: 'right', style: 'td', link: sheetFileName(c.id) } as TableCell,
+    ] as TableCell[];
+  });
 
-  const content: Content[] = [
-    ...section('cover', { title: [title], facts: [facts], signoff: [signoff] }),
-    { text: '', pageBreak: 'after' },
-    ...section('tree', { tree: [...(drawing ? [{ svg: drawing.svg, width: drawing.width, font: FONT, alignment: 'center', margin: [0, 4, 0, 10] } as Content] : []), tree] }),
-    ...section('index', { index: [index] }),
-    ...section('failing', {}),
-    ...section('assumptions', {}),
-  ];
-
-  return packageDocument(
-    project,
-    sheetLabels,
-    {
-      title: `${unmark(project.meta.name)} — ${labels['document']}`,
-      subject: labels['info.subject']!,
-      subjectLabel: labels['documentLabel']!,
-      subjectText: labels['document']!,
-      partLabel: labels['circuitsLabel']!,
-      part: String(result.circuits.length),
-      footerName: labels['document']!,
-    },
-    content,
-  );
+  return {
+    front: [
+      ...section('cover', { title: [title], facts: [facts], signoff: [signoff] }),
+      { text: '', pageBreak: 'after' },
+      ...section('tree', { tree: [...(drawing ? [{ svg: drawing.svg, width: drawing.width, font: FONT, alignment: 'center', margin: [0, 4, 0, 10] } as Content] : []), tree] }),
+    ],
+    indexRows,
+    indexTable: (rows) => dataTable([18, 60, '*', 60, 62, 52, 64, 24], indexHeader, rows),
+    indexSection: (table) => section('index', { index: [table] }),
+    failing: section('failing', {}),
+    assumptions: section('assumptions', {}),
+  };
 }

@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildDossier, type BuildReport } from '../../src/report/build.js';
 import { fixtureProject, fixtureResult, fixtureResultsJson } from '../fixtures/report/project.js';
 import { pdfText } from './helpers.js';
+import { sheetInputHash } from '../../src/report/fingerprint.js';
 
 const root = mkdtempSync(path.join(tmpdir(), 'fs-incremental-'));
 afterAll(() => rmSync(root, { recursive: true, force: true }));
@@ -57,6 +58,9 @@ describe('incremental build', () => {
     expect(statSync(path.join(out, 'MSB-Q4.pdf')).ino).toBe(before['MSB-Q4.pdf']);
     expect(pdfText(path.join(out, 'dossier.pdf'))).toContain('Chiller plant feeder, rerouted');
     expect(pdfText(path.join(out, 'summary.pdf'))).toContain('Chiller plant feeder, rerouted');
+    // the summary lays out again only its part that shows the edited row of the index
+    expect(b.summaryParts.laidOut).toBe(1);
+    expect(b.summaryParts.total).toBeGreaterThan(2);
   });
 
   it('gives, after an edit, the same bytes as a full build of the edited project', async () => {
@@ -105,5 +109,18 @@ describe('incremental build', () => {
       p.meta.revision = 'C';
     });
     expect(b.rendered).toBe(4);
+  });
+
+  it('prints on a kept sheet its own input hash, which the edit elsewhere did not change', async () => {
+    await build(renamed); // back to the edited project as it was
+    const p = fixtureProject();
+    const r = fixtureResult();
+    renamed(p, r);
+    p.inputSha256 = 'f'.repeat(64); // an edit changes the project's hash of every input file
+    const b = await buildDossier(p, r, fixtureResultsJson(p, r), out);
+    expect(b.rendered).toBe(0);
+    const own = sheetInputHash(p, r.circuits.find((c) => c.id === 'MSB-Q4')!).slice(0, 12);
+    expect(pdfText(path.join(out, 'MSB-Q4.pdf'))).toContain(own);
+    expect(pdfText(path.join(out, 'summary.pdf'))).toContain('f'.repeat(64)); // the cover's facts
   });
 });

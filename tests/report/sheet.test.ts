@@ -7,6 +7,7 @@ import { projectTemplates } from '../../src/report/build.js';
 import { SHEET_IMAGES, assumptionsOf, quantityGroup, sheetDocument } from '../../src/report/sheet.js';
 import { fixtureProject, fixtureResult } from '../fixtures/report/project.js';
 import { docText, findNodes } from './helpers.js';
+import { sheetInputHash } from '../../src/report/fingerprint.js';
 
 const project = fixtureProject();
 const result = fixtureResult();
@@ -42,8 +43,12 @@ describe('calculation sheet', () => {
   it('carries the title block on every page: project, number, revision, date, circuit, sheet n of N, hash, sign-off', () => {
     const header = (doc.header as (p: number, n: number) => unknown)(2, 5);
     const h = docText({ content: header } as never);
-    for (const s of ['Harbourview Cold Store', 'HCS-2207', 'B', '2026-03-14', 'MSB-Q4 — Feeder to process MCC-1', '2 of 5', '3 of 4', '3f2a9c4be17d', 'A. Marlowe', 'J. Okonkwo-Reyes', 'S. Lindqvist'])
+    // the sheet's own input hash (what it is computed from), not the whole project's
+    const own = sheetInputHash(fixtureProject(), fixtureResult().circuits.find((c) => c.id === 'MSB-Q4')!).slice(0, 12);
+    expect(own).not.toBe('3f2a9c4be17d');
+    for (const s of ['Harbourview Cold Store', 'HCS-2207', 'B', '2026-03-14', 'MSB-Q4 — Feeder to process MCC-1', '2 of 5', '3 of 4', own, 'Sheet inputs', 'A. Marlowe', 'J. Okonkwo-Reyes', 'S. Lindqvist'])
       expect(h).toContain(s);
+    expect(h).not.toContain('3f2a9c4be17d');
     for (const w of ['Prepared', 'Checked', 'Approved']) expect(h).toContain(w);
   });
 

@@ -1,0 +1,43 @@
+// The fingerprint of what one sheet is computed from: its circuit's input and result (the result
+// carries every upstream fault level, so an upstream edit changes it), its device and supply, and
+// the project's header, settings, defaults, assumptions and sign-off. The sheet prints it in its
+// title block ("Sheet inputs") and its sign-off, and the build cache keys the sheet on it, so a sheet
+// kept from an earlier build never shows a fingerprint other than its own. The whole project's
+// input hash (every file) is on the summary's cover and in results.json.
+
+import { createHash } from 'node:crypto';
+import type { Project } from '../model/types.js';
+import type { CircuitResult } from '../calc/types.js';
+
+export function sheetInputHash(project: Project, cr: CircuitResult): string {
+  const circuit = project.circuits.find((c) => c.id === cr.id);
+  const device = project.devices.find((d) => d.id === cr.device);
+  const supply = project.supplies.find((s) => s.id === cr.supply);
+  return createHash('sha256')
+    .update(
+      stableJson({
+        meta: project.meta,
+        settings: project.settings,
+        signoff: project.signoff,
+        assumptions: project.assumptions,
+        defaults: project.defaults,
+        circuit,
+        device,
+        supply,
+        supplyIndex: supply ? project.supplies.indexOf(supply) : -1,
+        result: cr,
+      }),
+    )
+    .digest('hex');
+}
+
+/** JSON that also writes Maps, Sets and non-finite numbers distinctly (for hashing, not for reading back). */
+export function stableJson(v: unknown): string {
+  return JSON.stringify(v, (_k, x: unknown) => {
+    if (x instanceof Map) return { $map: [...x.entries()] };
+    if (x instanceof Set) return { $set: [...x.values()] };
+    if (typeof x === 'number' && !Number.isFinite(x)) return `$num:${String(x)}`;
+    if (typeof x === 'bigint') return `$big:${x.toString()}`;
+    return x;
+  });
+}
