@@ -199,7 +199,9 @@ async function layOutSummary(
   const old = new Map((ctx.previous?.summaryParts ?? []).map((p) => [p.key, p]));
   const made = new Map<string, SummaryPart>();
   const header = stableJson({ meta: project.meta, signoff: project.signoff, circuits: result.circuits.length });
-  let total = ctx.previous?.summaryPages && ctx.previous.summaryPages >= 1 ? ctx.previous.summaryPages : 1;
+  // first guess: the last build's count, or, for a first build, what the parts are cut for: two
+  // pages of cover and board tree, then a page a part
+  let total = ctx.previous?.summaryPages && ctx.previous.summaryPages >= 1 ? ctx.previous.summaryPages : summaryParts(project, result, { templates: ctx.templates }).length + 1;
   let laidOut = 0;
   for (let attempt = 0; attempt < 4; attempt++) {
     const firstPage = new Map<string, number>();

@@ -7,7 +7,7 @@
 // only one part is in memory at a time, whatever the size of the project. The bytes depend only on
 // the parts and the metadata (no clock, no random id), so two builds of one project are identical.
 
-import { closeSync, openSync, readFileSync, writeSync } from 'node:fs';
+import { closeSync, openSync, readFileSync, writevSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { StandardFontEmbedder, StandardFonts } from 'pdf-lib';
 import { dictDelete, dictGet, dictSet, literalText, readPdf, serialize, textString, type PdfValue } from './pdf-file.js';
@@ -76,9 +76,17 @@ class PdfSink {
 
   flush(): void {
     if (!this.buffered) return;
-    const all = Buffer.concat(this.chunks, this.buffered);
-    let done = 0;
-    while (done < all.length) done += writeSync(this.fd, all, done);
+    // the chunks as they are (no copy into one buffer); a short write continues where it stopped
+    let chunks = this.chunks;
+    let left = this.buffered;
+    while (left > 0) {
+      let done = writevSync(this.fd, chunks.slice(0, 1024));
+      left -= done;
+      let i = 0;
+      while (i < chunks.length && done >= chunks[i].length) done -= chunks[i++].length;
+      chunks = chunks.slice(i);
+      if (done > 0) chunks[0] = chunks[0].subarray(done);
+    }
     this.chunks = [];
     this.buffered = 0;
   }
