@@ -10,6 +10,9 @@ import type { Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 
 export function sheetInputHash(project: Project, cr: CircuitResult): string {
+  // the chart series are sampled from the rest of the result (a lazy getter in the solver's result,
+  // plain data in a worker's copy): leave them out, so the hash is the same in every thread
+  const { charts: _charts, ...result } = cr;
   const circuit = project.circuits.find((c) => c.id === cr.id);
   const device = project.devices.find((d) => d.id === cr.device);
   const supply = project.supplies.find((s) => s.id === cr.supply);
@@ -25,7 +28,7 @@ export function sheetInputHash(project: Project, cr: CircuitResult): string {
         device,
         supply,
         supplyIndex: supply ? project.supplies.indexOf(supply) : -1,
-        result: cr,
+        result,
       }),
     )
     .digest('hex');

@@ -123,4 +123,11 @@ describe('incremental build', () => {
     expect(pdfText(path.join(out, 'MSB-Q4.pdf'))).toContain(own);
     expect(pdfText(path.join(out, 'summary.pdf'))).toContain('f'.repeat(64)); // the cover's facts
   });
+
+  it('fingerprints a sheet the same from the solver result and from the copy a worker thread gets', () => {
+    const p = fixtureProject();
+    const cr = fixtureResult().circuits[0];
+    const copy = structuredClone({ ...cr, charts: cr.charts }); // what a worker thread receives
+    expect(sheetInputHash(p, copy)).toBe(sheetInputHash(p, cr));
+  });
 });
