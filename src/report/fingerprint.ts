@@ -9,6 +9,20 @@ import { createHash } from 'node:crypto';
 import type { Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 
+/** The project's part of every sheet's fingerprint, hashed once per project object. */
+const projectParts = new WeakMap<Project, string>();
+
+function projectPart(project: Project): string {
+  let h = projectParts.get(project);
+  if (h === undefined) {
+    h = createHash('sha256')
+      .update(stableJson({ meta: project.meta, settings: project.settings, signoff: project.signoff, assumptions: project.assumptions, defaults: project.defaults }))
+      .digest('hex');
+    projectParts.set(project, h);
+  }
+  return h;
+}
+
 export function sheetInputHash(project: Project, cr: CircuitResult): string {
   // the chart series are sampled from the rest of the result (a lazy getter in the solver's result,
   // plain data in a worker's copy): leave them out, so the hash is the same in every thread
@@ -17,20 +31,8 @@ export function sheetInputHash(project: Project, cr: CircuitResult): string {
   const device = project.devices.find((d) => d.id === cr.device);
   const supply = project.supplies.find((s) => s.id === cr.supply);
   return createHash('sha256')
-    .update(
-      stableJson({
-        meta: project.meta,
-        settings: project.settings,
-        signoff: project.signoff,
-        assumptions: project.assumptions,
-        defaults: project.defaults,
-        circuit,
-        device,
-        supply,
-        supplyIndex: supply ? project.supplies.indexOf(supply) : -1,
-        result,
-      }),
-    )
+    .update(projectPart(project))
+    .update(stableJson({ circuit, device, supply, supplyIndex: supply ? project.supplies.indexOf(supply) : -1, result }))
     .digest('hex');
 }
 
