@@ -26,7 +26,11 @@ function projectPart(project: Project): string {
 export function sheetInputHash(project: Project, cr: CircuitResult): string {
   // the chart series are sampled from the rest of the result (a lazy getter in the solver's result,
   // plain data in a worker's copy): leave them out, so the hash is the same in every thread
-  const { charts: _charts, ...result } = cr;
+  // (copied key by key: destructuring would read the getter, which samples the series). The
+  // alternatives' threshold and maximum lengths are left out the same way: searched lazily from the
+  // alternative's size, this circuit's input and its origin's fault levels, all of which are in.
+  const result = omit(cr, ['charts']);
+  if (Array.isArray(result.alternatives)) result.alternatives = result.alternatives.map((a: object) => omit(a, ['thresholdLength', 'maxLength']));
   const circuit = project.circuits.find((c) => c.id === cr.id);
   const device = project.devices.find((d) => d.id === cr.device);
   const supply = project.supplies.find((s) => s.id === cr.supply);
@@ -34,6 +38,13 @@ export function sheetInputHash(project: Project, cr: CircuitResult): string {
     .update(projectPart(project))
     .update(stableJson({ circuit, device, supply, supplyIndex: supply ? project.supplies.indexOf(supply) : -1, result }))
     .digest('hex');
+}
+
+/** The own enumerable properties of `o` but `keys`, without reading those (they may be lazy getters). */
+function omit(o: object, keys: string[]): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const key of Object.keys(o)) if (!keys.includes(key)) out[key] = (o as Record<string, unknown>)[key];
+  return out;
 }
 
 /** JSON that also writes Maps, Sets and non-finite numbers distinctly (for hashing, not for reading back). */
