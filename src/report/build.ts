@@ -8,7 +8,7 @@ import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { openStaging } from '../io/write.js';
 import { CACHE_DIR, MANIFEST_FILE, emptyManifest, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
-import { writeDossier } from './dossier.js';
+import { writeDossier, type DossierReuse } from './dossier.js';
 import { pdfPageCount } from './pdf-file.js';
 import { DOSSIER_FILE, RESULTS_FILE, SUMMARY_FILE, planOutputs } from './plan.js';
 import { renderSheetsInPool, workerCount } from './pool.js';
@@ -19,7 +19,7 @@ import { summaryPartDocument, summaryParts } from './summary.js';
 import type { TemplateSet } from './templates.js';
 import { stableJson } from './fingerprint.js';
 import { createHash } from 'node:crypto';
-import { existsSync } from 'node:fs';
+import { existsSync, statSync } from 'node:fs';
 import { unmark } from './typeset.js';
 
 export { OutputPlanError, sheetFileName, planOutputs } from './plan.js';
@@ -59,6 +59,8 @@ export interface BuildReport {
   kept: number;
   /** Parts of the summary laid out by this build (the others were taken over), and all its parts. */
   summaryParts: { laidOut: number; total: number };
+  /** Sheets whose bytes the dossier copied from the previous dossier. */
+  dossierReused: number;
 }
 
 /** Write the dossier of `project` into `outDir`. */
@@ -141,7 +143,15 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     clock(`summary (${summary.laidOut} of ${summary.parts.length} parts laid out, ${summary.pages} pages)`);
     signal?.throwIfAborted();
 
-    writeDossier(
+    // The previous dossier's sheets are copied byte for byte where nothing about them moved.
+    const oldDossier = path.join(staging.outDir, DOSSIER_FILE);
+    const prevDossier = previous?.dossier;
+    let reuse: DossierReuse | undefined;
+    if (prevDossier) {
+      const st = statSync(oldDossier, { throwIfNoEntry: false });
+      if (st?.isFile() && st.size === prevDossier.size && st.mtimeMs === prevDossier.mtimeMs) reuse = { path: oldDossier, records: new Map(Object.entries(prevDossier.records)) };
+    }
+    const written = writeDossier(
       staging.pathOf(DOSSIER_FILE),
       { path: staging.pathOf(SUMMARY_FILE), pages: summary.pages, title: labels['dossier.summary'] },
       result.circuits.map((cr, i) => ({
@@ -149,6 +159,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         pages: pages[i],
         title: cr.description ? `${unmark(cr.id)} — ${unmark(cr.description)}` : unmark(cr.id),
         file: plan.sheets[i].file,
+        key: keys[i],
       })),
       {
         title: `${unmark(project.meta.name)} — ${labels['cover.kicker']}`,
@@ -158,8 +169,11 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         sheetsTitle: labels['dossier.sheets'],
         pageLabel: labels['dossier.page'],
       },
+      reuse,
     );
-    clock('dossier');
+    const dossierStat = await staging.stat(DOSSIER_FILE);
+    manifest.dossier = { size: dossierStat.size, mtimeMs: dossierStat.mtimeMs, records: written.records };
+    clock(`dossier (${written.reused} of ${result.circuits.length} sheets copied from the last one)`);
     await staging.write(RESULTS_FILE, JSON.stringify(resultsJson, null, 2) + '\n');
     await staging.write(`${CACHE_DIR}/${MANIFEST_FILE}`, JSON.stringify(manifest) + '\n');
     signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
@@ -170,6 +184,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       rendered: toRender.length,
       kept: total - toRender.length,
       summaryParts: { laidOut: summary.laidOut, total: summary.parts.length },
+      dossierReused: written.reused,
     };
   } catch (err) {
     await staging.discard();

@@ -16,10 +16,11 @@ import type { Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 import type { TemplateSet } from './templates.js';
 import { sheetInputHash } from './fingerprint.js';
+import type { PartRecord } from './dossier.js';
 
 export const CACHE_DIR = '.faultsheet-cache';
 export const MANIFEST_FILE = 'manifest.json';
-const FORMAT = 2;
+const FORMAT = 3;
 
 export interface CachedSheet {
   key: string;
@@ -34,6 +35,8 @@ export interface Manifest {
   summaryPages: number;
   /** The summary's parts in order (build.ts), each a PDF in the cache folder. */
   summaryParts: Array<{ key: string; pages: number; file: string }>;
+  /** The dossier as written, and where each sheet lies in it (dossier.ts PartRecord). */
+  dossier?: { size: number; mtimeMs: number; records: Record<string, PartRecord> };
 }
 
 export function emptyManifest(): Manifest {

@@ -7,7 +7,7 @@
 // only one part is in memory at a time, whatever the size of the project. The bytes depend only on
 // the parts and the metadata (no clock, no random id), so two builds of one project are identical.
 
-import { closeSync, openSync, readFileSync, writevSync } from 'node:fs';
+import { closeSync, openSync, readFileSync, readSync, writevSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { StandardFontEmbedder, StandardFonts } from 'pdf-lib';
 import { dictDelete, dictGet, dictSet, literalText, readPdf, serialize, textString, type PdfValue } from './pdf-file.js';
@@ -21,6 +21,8 @@ export interface DossierPart {
   title: string;
   /** The sheet's own file name: links to it from the summary become jumps inside the dossier. */
   file?: string;
+  /** The sheet's cache key: with `file`, lets a later dossier copy this part's bytes (PartRecord). */
+  key?: string;
 }
 
 export interface DossierMeta {
@@ -101,8 +103,6 @@ class PdfSink {
 }
 
 const atom = (text: string): PdfValue => ({ k: 'atom', text });
-const ref = (num: number): PdfValue => ({ k: 'ref', num });
-const same = (n: number): number => n;
 
 /** PDF date string (7.9.4) of a date, in UTC. */
 function pdfDate(d: Date): string {
@@ -119,16 +119,45 @@ function winAnsiSafe(text: string, font: StandardFontEmbedder): string {
  * Write the dossier to `outPath` (a new file): the summary's pages, then each sheet's, in order.
  * Returns the number of pages written.
  */
-export function writeDossier(outPath: string, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta): number {
+export function writeDossier(outPath: string, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
   const sink = new PdfSink(outPath);
   try {
-    return writeParts(sink, summary, sheets, meta);
+    return writeParts(sink, summary, sheets, meta, reuse);
   } finally {
     sink.close();
   }
 }
 
-function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta): number {
+/**
+ * Where one sheet's objects lie in a dossier file. A sheet's bytes in the dossier depend only on its
+ * own file, the first object number it is given, its first page number and the page total: where all
+ * four are as they were in the previous dossier, its byte range is copied from there as it is.
+ */
+export interface PartRecord {
+  key: string; // the sheet's cache key (its file's content)
+  base: number; // first object number
+  count: number; // objects
+  pageOffset: number; // pages before it in the dossier
+  total: number; // pages in the dossier
+  start: number; // byte range in the dossier file
+  end: number;
+  rel: number[]; // offset of each object from start, by number - base
+  kids: number[]; // its page objects
+}
+
+/** The previous dossier and where its sheets lie (from the build cache). */
+export interface DossierReuse {
+  path: string;
+  records: ReadonlyMap<string, PartRecord>; // by sheet file name
+}
+
+export interface DossierWritten {
+  pages: number;
+  records: Record<string, PartRecord>; // by sheet file name
+  reused: number;
+}
+
+function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
   const parts = [summary, ...sheets];
   const totalPages = parts.reduce((n, p) => n + p.pages, 0);
   sink.write('%PDF-1.7\n%\xe2\xe3\xcf\xd3\n');
@@ -153,14 +182,62 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
     sink.object(restoreNum, '<< /Length 1 >>\nstream', Buffer.from('Q\nendstream', 'latin1'));
   }
 
-  // Sheet file name -> the dossier object of its first page, for the summary's links. Object numbers
-  // are given out part by part, so the first page's number of each part is known before it is read.
-  const sheetFiles = new Set(sheets.flatMap((s) => (s.file ? [s.file] : [])));
-  const kids: number[] = [];
-  const firstPages: number[] = [];
-  const pendingLinks: Array<{ num: number; value: PdfValue; file: string }> = [];
-  let pageNo = 0;
-  for (const part of parts) {
+  // The sheets are written first and the summary last (the page order is still the summary's
+  // first): a change in the summary's objects then moves no sheet's object numbers, and the
+  // summary's links can name the sheets' first pages directly.
+  const sheetFiles = new Map<string, number>(); // sheet file -> its first page object
+  const firstPages: number[] = new Array(parts.length);
+  const kidsOf: number[][] = new Array(parts.length);
+  const records: Record<string, PartRecord> = {};
+  let reused = 0;
+  const old = reuse ? openSync(reuse.path, 'r') : null;
+  try {
+    let pageNo = summary.pages;
+    for (let i = 1; i < parts.length; i++) {
+      const part = parts[i];
+      const rec = part.file !== undefined && part.key !== undefined ? reuse?.records.get(part.file) : undefined;
+      const base = sink.size;
+      const start = sink.offset;
+      if (old && rec && rec.key === part.key && rec.base === base && rec.pageOffset === pageNo && rec.total === totalPages && rec.kids.length === part.pages) {
+        const bytes = Buffer.allocUnsafe(rec.end - rec.start);
+        let got = 0;
+        while (got < bytes.length) {
+          const n = readSync(old, bytes, got, bytes.length - got, rec.start + got);
+          if (n === 0) throw new Error(`internal error: ${reuse!.path} is shorter than its cache says`);
+          got += n;
+        }
+        for (let k = 0; k < rec.count; k++) sink.offsets[sink.allocate()] = start + rec.rel[k];
+        sink.write(bytes);
+        kidsOf[i] = rec.kids;
+        reused++;
+      } else kidsOf[i] = copyPart(part, pageNo);
+      firstPages[i] = kidsOf[i][0];
+      pageNo += part.pages;
+      if (part.file !== undefined) {
+        sheetFiles.set(part.file, firstPages[i]);
+        if (part.key !== undefined)
+          records[part.file] = {
+            key: part.key,
+            base,
+            count: sink.size - base,
+            pageOffset: pageNo - part.pages,
+            total: totalPages,
+            start,
+            end: sink.offset,
+            rel: sink.offsets.slice(base, sink.size).map((o) => o - start),
+            kids: kidsOf[i],
+          };
+      }
+    }
+  } finally {
+    if (old !== null) closeSync(old);
+  }
+  kidsOf[0] = copyPart(summary, 0);
+  firstPages[0] = kidsOf[0][0];
+  const kids = kidsOf.flat();
+
+  /** Copy one part's objects, renumbered, with its pages stamped from page pageOffset + 1; returns its page objects. */
+  function copyPart(part: DossierPart, pageOffset: number): number[] {
     const pdf = readPdf(readFileSync(part.path));
     if (pdf.pages.length !== part.pages) throw new Error(`internal error: ${part.path} has ${pdf.pages.length} pages, ${part.pages} expected`);
     const skip = new Set<number>([pdf.catalog, ...pdf.pageTreeNodes]);
@@ -186,10 +263,11 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
     };
     const pageSet = new Set(pdf.pages);
     const resourcesOfPages = new Set<number>();
-    firstPages.push(renumber(pdf.pages[0]));
+    const pageObjects: number[] = [];
+    let pageNo = pageOffset;
     for (const page of pdf.pages) {
       const value = pdf.objects.get(page)!.value;
-      kids.push(renumber(page));
+      pageObjects.push(renumber(page));
       dictSet(value, '/Parent', atom(`${pagesNum} 0 R`)); // a dossier number already, like the stamp's
       const res = dictGet(value, '/Resources');
       if (stamp) {
@@ -222,25 +300,14 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
       const action = dictGet(o.value, '/A');
       const file = action?.k === 'ref' ? actionFile.get(action.num) : undefined;
       if (file !== undefined) {
-        // written once every sheet's first page is known
         dictDelete(o.value, '/A');
-        pendingLinks.push({ num: map.get(num)!, value: reNumbered(o.value, renumber), file });
-        sink.offsets[map.get(num)!] = -1;
-        continue;
+        dictSet(o.value, '/Dest', { k: 'array', items: [atom(`${sheetFiles.get(file)!} 0 R`), atom('/Fit')] });
       }
       const body = serialize(o.value, renumber);
       if (o.stream) sink.object(map.get(num)!, body, pdf.bytes.subarray(o.stream.start, o.stream.end));
       else sink.object(map.get(num)!, body);
     }
-  }
-
-  const byFile = new Map<string, number>();
-  sheets.forEach((s, i) => {
-    if (s.file) byFile.set(s.file, firstPages[i + 1]);
-  });
-  for (const l of pendingLinks) {
-    dictSet(l.value, '/Dest', { k: 'array', items: [ref(byFile.get(l.file)!), atom('/Fit')] });
-    sink.object(l.num, serialize(l.value, same));
+    return pageObjects;
   }
 
   sink.object(pagesNum, `<< /Type /Pages /Kids [${kids.map((k) => `${k} 0 R`).join(' ')}] /Count ${kids.length} >>`);
@@ -266,21 +333,7 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
   }
   sink.write(xref);
   sink.write(`trailer\n<< /Size ${sink.size} /Root ${catalogNum} 0 R /Info ${infoNum} 0 R /ID [<${id}> <${id}>] >>\nstartxref\n${xrefAt}\n%%EOF\n`);
-  return totalPages;
-}
-
-/** A copy of `v` with its references already renumbered (kept as atoms, so a later write leaves them). */
-function reNumbered(v: PdfValue, renumber: (n: number) => number): PdfValue {
-  switch (v.k) {
-    case 'ref':
-      return atom(`${renumber(v.num)} 0 R`);
-    case 'atom':
-      return v;
-    case 'array':
-      return { k: 'array', items: v.items.map((x) => reNumbered(x, renumber)) };
-    case 'dict':
-      return { k: 'dict', entries: v.entries.map(([k, x]) => [k, reNumbered(x, renumber)]) };
-  }
+  return { pages: totalPages, records, reused };
 }
 
 /** Add the stamp's font to a resource dictionary (once). */

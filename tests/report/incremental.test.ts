@@ -45,6 +45,7 @@ describe('incremental build', () => {
   it('renders nothing when nothing changed, and writes the same files', async () => {
     const b = await build();
     expect([b.rendered, b.kept]).toEqual([0, 4]);
+    expect(b.dossierReused).toBe(4);
     const again = outputs(out);
     expect(Object.keys(again)).toEqual(Object.keys(first));
     for (const f of Object.keys(first)) expect(again[f].equals(first[f]), f).toBe(true);
@@ -60,6 +61,8 @@ describe('incremental build', () => {
     expect(pdfText(path.join(out, 'summary.pdf'))).toContain('Chiller plant feeder, rerouted');
     // the summary lays out again only its part that shows the edited row of the index
     expect(b.summaryParts.laidOut).toBe(1);
+    // and the dossier copies the three unchanged sheets from the previous dossier as they were
+    expect(b.dossierReused).toBe(3);
     expect(b.summaryParts.total).toBeGreaterThan(2);
   });
 
@@ -80,8 +83,10 @@ describe('incremental build', () => {
 
   it('renders a sheet again when its file in OUT was changed by hand', async () => {
     appendFileSync(path.join(out, 'MSB-Q7.pdf'), '%edited\n');
+    appendFileSync(path.join(out, 'dossier.pdf'), '%edited\n'); // its byte ranges are no longer trusted
     const b = await build(renamed);
     expect(b.sheets).toEqual(['MSB-Q7']);
+    expect(b.dossierReused).toBe(0);
   });
 
   it('renders everything when the cache is deleted or unreadable, and builds as usual', async () => {
