@@ -7,8 +7,8 @@ import path from 'node:path';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { openStaging } from '../io/write.js';
-import { CACHE_DIR, MANIFEST_FILE, emptyManifest, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
-import { writeDossier, type DossierReuse } from './dossier.js';
+import { CACHE_DIR, MANIFEST_FILE, cachedSummaryPart, emptyManifest, previousDossier, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
+import { writeDossier } from './dossier.js';
 import { pdfPageCount } from './pdf-file.js';
 import { DOSSIER_FILE, RESULTS_FILE, SUMMARY_FILE, planOutputs } from './plan.js';
 import { renderSheetsInPool, workerCount } from './pool.js';
@@ -19,7 +19,6 @@ import { summaryPartDocument, summaryParts } from './summary.js';
 import type { TemplateSet } from './templates.js';
 import { stableJson } from './fingerprint.js';
 import { createHash } from 'node:crypto';
-import { existsSync, statSync } from 'node:fs';
 import { unmark } from './typeset.js';
 
 export { OutputPlanError, sheetFileName, planOutputs } from './plan.js';
@@ -144,13 +143,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     signal?.throwIfAborted();
 
     // The previous dossier's sheets are copied byte for byte where nothing about them moved.
-    const oldDossier = path.join(staging.outDir, DOSSIER_FILE);
-    const prevDossier = previous?.dossier;
-    let reuse: DossierReuse | undefined;
-    if (prevDossier) {
-      const st = statSync(oldDossier, { throwIfNoEntry: false });
-      if (st?.isFile() && st.size === prevDossier.size && st.mtimeMs === prevDossier.mtimeMs) reuse = { path: oldDossier, records: new Map(Object.entries(prevDossier.records)) };
-    }
+    const reuse = previousDossier(staging.outDir, previous);
     const written = writeDossier(
       staging.pathOf(DOSSIER_FILE),
       { path: staging.pathOf(SUMMARY_FILE), pages: summary.pages, title: labels['dossier.summary'] },
@@ -211,7 +204,6 @@ async function layOutSummary(
   result: ProjectResult,
   ctx: { templates: TemplateSet; renderer: Renderer; projectPrint: string; pages: number[]; previous: Manifest | null; outDir: string; signal?: AbortSignal },
 ): Promise<{ pages: number; parts: SummaryPart[]; laidOut: number }> {
-  const old = new Map((ctx.previous?.summaryParts ?? []).map((p) => [p.key, p]));
   const made = new Map<string, SummaryPart>();
   const header = stableJson({ meta: project.meta, signoff: project.signoff, circuits: result.circuits.length });
   // first guess: the last build's count, or, for a first build, what the parts are cut for: two
@@ -231,10 +223,7 @@ async function layOutSummary(
     for (const content of summaryParts(project, result, opts)) {
       ctx.signal?.throwIfAborted();
       const key = createHash('sha256').update(ctx.projectPrint).update(header).update(`${offset}/${total}\n`).update(stableJson(content)).digest('hex');
-      let part = made.get(key);
-      const before = old.get(key);
-      if (!part && before && before.pages >= 1 && /^summary-[0-9a-f]{16}\.pdf$/.test(before.file) && existsSync(path.join(ctx.outDir, CACHE_DIR, before.file)))
-        part = { key, pages: before.pages, file: before.file };
+      let part: SummaryPart | undefined = made.get(key) ?? cachedSummaryPart(ctx.outDir, ctx.previous, key);
       if (!part) {
         const bytes = await ctx.renderer.pdf(summaryPartDocument(project, result, opts, content, { offset, total }));
         part = { key, pages: pdfPageCount(bytes), file: `summary-${key.slice(0, 16)}.pdf`, bytes };

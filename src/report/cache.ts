@@ -8,7 +8,7 @@
 // next build renders everything. A manifest that cannot be read is treated as missing.
 
 import { createHash } from 'node:crypto';
-import { readFileSync, readdirSync, statSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createRequire } from 'node:module';
@@ -16,7 +16,8 @@ import type { Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 import type { TemplateSet } from './templates.js';
 import { sheetInputHash } from './fingerprint.js';
-import type { PartRecord } from './dossier.js';
+import type { DossierReuse, PartRecord } from './dossier.js';
+import { DOSSIER_FILE } from './plan.js';
 
 export const CACHE_DIR = '.faultsheet-cache';
 export const MANIFEST_FILE = 'manifest.json';
@@ -54,16 +55,35 @@ export function readManifest(outDir: string): Manifest | null {
   }
 }
 
+/** True if `file` is still the file a build wrote with this size and modification time. */
+function unchanged(file: string, seen: { size: number; mtimeMs: number }): boolean {
+  try {
+    const st = statSync(file);
+    return st.isFile() && st.size === seen.size && st.mtimeMs === seen.mtimeMs;
+  } catch {
+    return false;
+  }
+}
+
 /** The previous build's file for `file` if it is still the one it wrote for `key`. */
 export function reusable(outDir: string, manifest: Manifest | null, file: string, key: string): CachedSheet | null {
   const entry = manifest && Object.hasOwn(manifest.sheets, file) ? manifest.sheets[file] : undefined;
   if (!entry || entry.key !== key || !(entry.pages >= 1)) return null;
-  try {
-    const st = statSync(path.join(outDir, file));
-    return st.isFile() && st.size === entry.size && st.mtimeMs === entry.mtimeMs ? entry : null;
-  } catch {
-    return null;
-  }
+  return unchanged(path.join(outDir, file), entry) ? entry : null;
+}
+
+/** The previous build's dossier and where its sheets lie, if the file is still the one it wrote. */
+export function previousDossier(outDir: string, manifest: Manifest | null): DossierReuse | undefined {
+  const file = path.join(outDir, DOSSIER_FILE);
+  const seen = manifest?.dossier;
+  return seen && unchanged(file, seen) ? { path: file, records: new Map(Object.entries(seen.records)) } : undefined;
+}
+
+/** The previous build's summary part laid out for `key`, if its file is still in the cache. */
+export function cachedSummaryPart(outDir: string, manifest: Manifest | null, key: string): { key: string; pages: number; file: string } | undefined {
+  const before = manifest?.summaryParts.find((p) => p.key === key);
+  if (!before || !(before.pages >= 1) || !/^summary-[0-9a-f]{16}\.pdf$/.test(before.file) || !existsSync(path.join(outDir, CACHE_DIR, before.file))) return undefined;
+  return { key, pages: before.pages, file: before.file };
 }
 
 let toolPrint: string | null = null;
