@@ -12,6 +12,7 @@ import type { Project } from './model/types.js';
 import type { CheckResult, CircuitResult, ProjectResult, Status } from './calc/types.js';
 import { initProject, InitError } from './init.js';
 import { demoProjectDirs, packageVersion } from './demo.js';
+import type { SheetPool } from './report/pool.js';
 
 export interface CliIo {
   argv: string[]; // arguments after the program name
@@ -204,6 +205,19 @@ interface Built {
 /** Load, solve and write one project's dossier, with a progress bar on a terminal. */
 async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { quiet: boolean; force?: boolean; jobs?: number }): Promise<Built> {
   const started = performance.now();
+  // Worker threads for the sheets start now and load the report on another core while this thread
+  // reads and solves the project (report/pool.ts). --jobs 1 renders in this thread.
+  const { earlyThreads, startSheetPool } = await import('./report/pool.js');
+  const threads = earlyThreads(opts.jobs);
+  const pool = threads > 0 ? await startSheetPool(threads) : undefined;
+  try {
+    return await solveAndBuild(io, projectDir, outDir, opts, started, pool);
+  } finally {
+    await pool?.destroy();
+  }
+}
+
+async function solveAndBuild(io: CliIo, projectDir: string, outDir: string, opts: { quiet: boolean; force?: boolean; jobs?: number }, started: number, pool: SheetPool | undefined): Promise<Built> {
   const project = await load(io, projectDir);
   const result = solveProject(project);
   io.signal?.throwIfAborted();
@@ -233,6 +247,7 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
       force: opts.force,
       jobs: opts.jobs,
       signal: io.signal,
+      pool,
     });
   } catch (e) {
     // two sheets on one file name, an output folder that cannot be used, a project template that does not compile

@@ -7,11 +7,11 @@ import path from 'node:path';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { openStaging } from '../io/write.js';
-import { CACHE_DIR, MANIFEST_FILE, cachedSummaryPart, emptyManifest, previousDossier, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
+import { CACHE_DIR, MANIFEST_FILE, cachedSummaryPart, emptyManifest, previousJoined, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
 import { writeDossier } from './dossier.js';
 import { pdfPageCount } from './pdf-file.js';
 import { DOSSIER_FILE, RESULTS_FILE, SUMMARY_FILE, planOutputs } from './plan.js';
-import { renderSheetsInPool, workerCount } from './pool.js';
+import { startSheetPool, workerCount, type SheetPool } from './pool.js';
 import { defaultRenderer, type Renderer } from './render.js';
 import { projectDate } from './sheet.js';
 import { projectTemplates, renderSheet } from './sheets.js';
@@ -39,6 +39,11 @@ export interface BuildOptions {
   signal?: AbortSignal;
   /** For tests: a renderer to use instead of the shared one (always renders in the main thread). */
   renderer?: Renderer;
+  /**
+   * Worker threads started before the project was read (the command line does, pool.ts): used for
+   * any sheet to render, however few, and left running for the caller to destroy.
+   */
+  pool?: SheetPool;
 }
 
 /** FAULTSHEET_TIMINGS=1: the time of each phase of a build on stderr (for profiling; see DEVELOPERS.md). */
@@ -104,32 +109,60 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       manifest.sheets[file] = { key: keys[i], pages: pageCount, size: st.size, mtimeMs: st.mtimeMs };
       opts.onProgress?.(++done, toRender.length, result.circuits[i].id);
     };
-    const threads = opts.renderer ? 0 : workerCount(toRender.length, opts.jobs);
-    if (threads > 0) await renderSheetsInPool(project, result, toRender, templates, threads, (s) => accept(s.index, s.bytes, s.pages), signal);
-    else {
-      const renderer = opts.renderer ?? defaultRenderer();
+    const renderer = opts.renderer ?? defaultRenderer();
+    const summaryCtx = { templates, renderer, projectPrint, previous, outDir: staging.outDir, made: new Map<string, SummaryPart>() };
+    let summary: LaidOutSummary | null = null;
+    const threads = opts.renderer || toRender.length === 0 ? 0 : opts.pool ? opts.pool.maxThreads : workerCount(toRender.length, opts.jobs);
+    if (threads > 0) {
+      const pool = opts.pool ?? (await startSheetPool(threads));
+      // The sheets render on the workers while this thread lays out the summary, when the last
+      // build says how many pages each of them had (an edit seldom changes that; if it does, the
+      // summary is laid out again with the counts the sheets have).
+      const guess = previous && toRender.every((i) => (previous.sheets[plan.sheets[i].file]?.pages ?? 0) >= 1) ? Array.from(pages, (p, i) => p ?? previous.sheets[plan.sheets[i].file].pages) : null;
+      const local = new AbortController(); // the first failure, or an interruption, stops both
+      const stop = (): void => local.abort(signal?.reason);
+      signal?.addEventListener('abort', stop, { once: true });
+      let first: { err: unknown } | null = null;
+      const fail = (err: unknown): null => {
+        first ??= { err };
+        local.abort();
+        return null;
+      };
+      try {
+        const [, early] = await Promise.all([
+          pool.render(project, result, toRender, templates, (s) => accept(s.index, s.bytes, s.pages), local.signal).catch(fail),
+          guess ? layOutSummary(project, result, { ...summaryCtx, pages: guess, signal: local.signal }).catch(fail) : null,
+        ]);
+        if (first) throw (first as { err: unknown }).err;
+        if (early && guess!.every((p, i) => p === pages[i])) summary = early;
+      } finally {
+        signal?.removeEventListener('abort', stop);
+        if (!opts.pool) await pool.destroy();
+      }
+    } else
       for (const i of toRender) {
         const bytes = await renderSheet(project, result, i, templates, renderer);
         await accept(i, bytes, pdfPageCount(bytes));
       }
-    }
+    signal?.throwIfAborted();
 
-    clock(`sheets (${threads > 0 ? `${threads} worker threads` : 'main thread'})`);
+    clock(`sheets (${threads > 0 ? `up to ${threads} worker threads` : 'main thread'})`);
     // The summary, laid out part by part (summary.ts summaryParts), each part cached like a sheet,
     // then joined into summary.pdf.
-    const renderer = opts.renderer ?? defaultRenderer();
     const labels = templates.labels('summary/labels.hbs');
-    const summary = await layOutSummary(project, result, { templates, renderer, projectPrint, pages, previous, outDir: staging.outDir, signal });
+    summary ??= await layOutSummary(project, result, { ...summaryCtx, pages, signal });
     for (const part of summary.parts)
       if (part.bytes) await staging.write(`${CACHE_DIR}/${part.file}`, part.bytes);
       else await staging.adopt(`${CACHE_DIR}/${part.file}`, path.join(staging.outDir, CACHE_DIR, part.file));
     manifest.summaryPages = summary.pages;
     manifest.summaryParts = summary.parts.map(({ key, pages, file }) => ({ key, pages, file }));
-    const partPath = (file: string): string => staging.pathOf(`${CACHE_DIR}/${file}`);
-    writeDossier(
+    // Each part is given its file and key, so the next build can copy its bytes from this one's
+    // summary.pdf and dossier.pdf where nothing about it moved (dossier.ts PartRecord).
+    const summaryFiles = summary.parts.map((p) => ({ path: staging.pathOf(`${CACHE_DIR}/${p.file}`), pages: p.pages, title: '', file: p.file, key: p.key }));
+    const joined = writeDossier(
       staging.pathOf(SUMMARY_FILE),
-      { path: partPath(summary.parts[0].file), pages: summary.parts[0].pages, title: '' },
-      summary.parts.slice(1).map((p) => ({ path: partPath(p.file), pages: p.pages, title: '' })),
+      [],
+      summaryFiles,
       {
         title: `${unmark(project.meta.name)} — ${labels['document']}`,
         subject: labels['info.subject'],
@@ -138,15 +171,17 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         sheetsTitle: '',
         outline: false,
       },
+      previousJoined(staging.outDir, previous, 'summary'),
     );
-    clock(`summary (${summary.laidOut} of ${summary.parts.length} parts laid out, ${summary.pages} pages)`);
+    const summaryStat = await staging.stat(SUMMARY_FILE);
+    manifest.summary = { size: summaryStat.size, mtimeMs: summaryStat.mtimeMs, records: joined.records };
+    clock(`summary (${summary.laidOut} of ${summary.parts.length} parts laid out, ${joined.reused} copied from the last summary.pdf, ${summary.pages} pages)`);
     signal?.throwIfAborted();
 
-    // The previous dossier's sheets are copied byte for byte where nothing about them moved.
-    const reuse = previousDossier(staging.outDir, previous);
+    // The previous dossier's sheets and summary parts are copied byte for byte where nothing about them moved.
     const written = writeDossier(
       staging.pathOf(DOSSIER_FILE),
-      { path: staging.pathOf(SUMMARY_FILE), pages: summary.pages, title: labels['dossier.summary'] },
+      summaryFiles,
       result.circuits.map((cr, i) => ({
         path: staging.pathOf(plan.sheets[i].file),
         pages: pages[i],
@@ -162,11 +197,11 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         sheetsTitle: labels['dossier.sheets'],
         pageLabel: labels['dossier.page'],
       },
-      reuse,
+      previousJoined(staging.outDir, previous, 'dossier'),
     );
     const dossierStat = await staging.stat(DOSSIER_FILE);
     manifest.dossier = { size: dossierStat.size, mtimeMs: dossierStat.mtimeMs, records: written.records };
-    clock(`dossier (${written.reused} of ${result.circuits.length} sheets copied from the last one)`);
+    clock(`dossier (${written.reused} of ${result.circuits.length} sheets and ${written.reusedFront} of ${summary.parts.length} summary parts copied from the last one)`);
     await staging.write(RESULTS_FILE, JSON.stringify(resultsJson, null, 2) + '\n');
     await staging.write(`${CACHE_DIR}/${MANIFEST_FILE}`, JSON.stringify(manifest) + '\n');
     signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
@@ -183,6 +218,12 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     await staging.discard();
     throw err;
   }
+}
+
+interface LaidOutSummary {
+  pages: number;
+  parts: SummaryPart[];
+  laidOut: number;
 }
 
 interface SummaryPart {
@@ -202,14 +243,13 @@ interface SummaryPart {
 async function layOutSummary(
   project: Project,
   result: ProjectResult,
-  ctx: { templates: TemplateSet; renderer: Renderer; projectPrint: string; pages: number[]; previous: Manifest | null; outDir: string; signal?: AbortSignal },
-): Promise<{ pages: number; parts: SummaryPart[]; laidOut: number }> {
-  const made = new Map<string, SummaryPart>();
+  ctx: { templates: TemplateSet; renderer: Renderer; projectPrint: string; pages: number[]; previous: Manifest | null; outDir: string; signal?: AbortSignal; made: Map<string, SummaryPart> },
+): Promise<LaidOutSummary> {
+  const made = ctx.made; // parts laid out by this build, by key (shared by the layouts of one build)
   const header = stableJson({ meta: project.meta, signoff: project.signoff, circuits: result.circuits.length });
   // first guess: the last build's count, or, for a first build, what the parts are cut for: two
   // pages of cover and board tree, then a page a part
   let total = ctx.previous?.summaryPages && ctx.previous.summaryPages >= 1 ? ctx.previous.summaryPages : summaryParts(project, result, { templates: ctx.templates }).length + 1;
-  let laidOut = 0;
   for (let attempt = 0; attempt < 4; attempt++) {
     const firstPage = new Map<string, number>();
     let next = total + 1;
@@ -227,13 +267,12 @@ async function layOutSummary(
       if (!part) {
         const bytes = await ctx.renderer.pdf(summaryPartDocument(project, result, opts, content, { offset, total }));
         part = { key, pages: pdfPageCount(bytes), file: `summary-${key.slice(0, 16)}.pdf`, bytes };
-        laidOut++;
       }
       made.set(key, part);
       parts.push(part);
       offset += part.pages;
     }
-    if (offset === total) return { pages: total, parts, laidOut };
+    if (offset === total) return { pages: total, parts, laidOut: parts.filter((p) => p.bytes).length };
     total = offset;
   }
   throw new Error('internal error: the summary page count does not settle');

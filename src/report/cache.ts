@@ -17,11 +17,11 @@ import type { CircuitResult } from '../calc/types.js';
 import type { TemplateSet } from './templates.js';
 import { sheetInputHash } from './fingerprint.js';
 import type { DossierReuse, PartRecord } from './dossier.js';
-import { DOSSIER_FILE } from './plan.js';
+import { DOSSIER_FILE, SUMMARY_FILE } from './plan.js';
 
 export const CACHE_DIR = '.faultsheet-cache';
 export const MANIFEST_FILE = 'manifest.json';
-const FORMAT = 3;
+const FORMAT = 4;
 
 export interface CachedSheet {
   key: string;
@@ -36,8 +36,16 @@ export interface Manifest {
   summaryPages: number;
   /** The summary's parts in order (build.ts), each a PDF in the cache folder. */
   summaryParts: Array<{ key: string; pages: number; file: string }>;
-  /** The dossier as written, and where each sheet lies in it (dossier.ts PartRecord). */
-  dossier?: { size: number; mtimeMs: number; records: Record<string, PartRecord> };
+  /** The dossier as written, and where each part lies in it (dossier.ts PartRecord). */
+  dossier?: JoinedFile;
+  /** summary.pdf as joined from the parts, and where each part lies in it. */
+  summary?: JoinedFile;
+}
+
+export interface JoinedFile {
+  size: number;
+  mtimeMs: number;
+  records: Record<string, PartRecord>;
 }
 
 export function emptyManifest(): Manifest {
@@ -72,11 +80,11 @@ export function reusable(outDir: string, manifest: Manifest | null, file: string
   return unchanged(path.join(outDir, file), entry) ? entry : null;
 }
 
-/** The previous build's dossier and where its sheets lie, if the file is still the one it wrote. */
-export function previousDossier(outDir: string, manifest: Manifest | null): DossierReuse | undefined {
-  const file = path.join(outDir, DOSSIER_FILE);
-  const seen = manifest?.dossier;
-  return seen && unchanged(file, seen) ? { path: file, records: new Map(Object.entries(seen.records)) } : undefined;
+/** The previous build's dossier or summary.pdf and where its parts lie, if the file is still the one it wrote. */
+export function previousJoined(outDir: string, manifest: Manifest | null, which: 'dossier' | 'summary'): DossierReuse | undefined {
+  const file = path.join(outDir, which === 'dossier' ? DOSSIER_FILE : SUMMARY_FILE);
+  const seen = manifest?.[which];
+  return seen && typeof seen.records === 'object' && seen.records !== null && unchanged(file, seen) ? { path: file, records: new Map(Object.entries(seen.records)) } : undefined;
 }
 
 /** The previous build's summary part laid out for `key`, if its file is still in the cache. */

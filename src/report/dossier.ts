@@ -19,9 +19,12 @@ export interface DossierPart {
   pages: number;
   /** Outline entry, plain text. */
   title: string;
-  /** The sheet's own file name: links to it from the summary become jumps inside the dossier. */
+  /**
+   * The part's own file name. A sheet's: links to it from the front parts become jumps inside the
+   * dossier. With `key`, it lets a later dossier copy this part's bytes (PartRecord).
+   */
   file?: string;
-  /** The sheet's cache key: with `file`, lets a later dossier copy this part's bytes (PartRecord). */
+  /** The part's cache key (the content of its file). */
   key?: string;
 }
 
@@ -116,25 +119,27 @@ function winAnsiSafe(text: string, font: StandardFontEmbedder): string {
 }
 
 /**
- * Write the dossier to `outPath` (a new file): the summary's pages, then each sheet's, in order.
- * Returns the number of pages written.
+ * Write the dossier to `outPath` (a new file): the front parts' pages (the summary), then each
+ * sheet's, in order. Returns the pages written and where each part lies (for the next build).
  */
-export function writeDossier(outPath: string, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
+export function writeDossier(outPath: string, front: DossierPart[], sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
   const sink = new PdfSink(outPath);
   try {
-    return writeParts(sink, summary, sheets, meta, reuse);
+    return writeParts(sink, front, sheets, meta, reuse);
   } finally {
     sink.close();
   }
 }
 
 /**
- * Where one sheet's objects lie in a dossier file. A sheet's bytes in the dossier depend only on its
+ * Where one part's objects lie in a dossier file. A sheet's bytes in the dossier depend only on its
  * own file, the first object number it is given, its first page number and the page total: where all
- * four are as they were in the previous dossier, its byte range is copied from there as it is.
+ * four are as they were in the previous dossier, its byte range is copied from there as it is. A
+ * front part (the summary's) also depends on where the sheets it links to begin (`links`).
  */
 export interface PartRecord {
-  key: string; // the sheet's cache key (its file's content)
+  key: string; // the part's cache key (its file's content)
+  links: string; // front parts: a hash of every sheet's file and first page object; '' for sheets
   base: number; // first object number
   count: number; // objects
   pageOffset: number; // pages before it in the dossier
@@ -148,17 +153,24 @@ export interface PartRecord {
 /** The previous dossier and where its sheets lie (from the build cache). */
 export interface DossierReuse {
   path: string;
-  records: ReadonlyMap<string, PartRecord>; // by sheet file name
+  records: ReadonlyMap<string, PartRecord>; // by recordName()
 }
 
 export interface DossierWritten {
   pages: number;
-  records: Record<string, PartRecord>; // by sheet file name
-  reused: number;
+  records: Record<string, PartRecord>; // by recordName()
+  reused: number; // sheets copied from the previous dossier
+  reusedFront: number; // front parts copied from it
 }
 
-function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
-  const parts = [summary, ...sheets];
+/** The name a part's record is kept under: front parts and sheets apart (a circuit id may look like a summary part's file). */
+function recordName(part: DossierPart, front: boolean): string | undefined {
+  if (part.file === undefined || part.key === undefined) return undefined;
+  return front ? `front:${part.file}` : part.file;
+}
+
+function writeParts(sink: PdfSink, front: DossierPart[], sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
+  const parts = [...front, ...sheets];
   const totalPages = parts.reduce((n, p) => n + p.pages, 0);
   sink.write('%PDF-1.7\n%\xe2\xe3\xcf\xd3\n');
 
@@ -182,23 +194,29 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
     sink.object(restoreNum, '<< /Length 1 >>\nstream', Buffer.from('Q\nendstream', 'latin1'));
   }
 
-  // The sheets are written first and the summary last (the page order is still the summary's
+  // The sheets are written first and the front parts last (the page order is still the front's
   // first): a change in the summary's objects then moves no sheet's object numbers, and the
   // summary's links can name the sheets' first pages directly.
   const sheetFiles = new Map<string, number>(); // sheet file -> its first page object
   const firstPages: number[] = new Array(parts.length);
   const kidsOf: number[][] = new Array(parts.length);
   const records: Record<string, PartRecord> = {};
+  const frontPages = front.reduce((n, p) => n + p.pages, 0);
   let reused = 0;
+  let reusedFront = 0;
+  let links = '';
   const old = reuse ? openSync(reuse.path, 'r') : null;
   try {
-    let pageNo = summary.pages;
-    for (let i = 1; i < parts.length; i++) {
+    /** Write parts[i], first page pageNo + 1: copied from the previous dossier if nothing about it moved. */
+    const place = (i: number, pageNo: number): void => {
       const part = parts[i];
-      const rec = part.file !== undefined && part.key !== undefined ? reuse?.records.get(part.file) : undefined;
+      const isFront = i < front.length;
+      const name = recordName(part, isFront);
+      const rec = name !== undefined ? reuse?.records.get(name) : undefined;
       const base = sink.size;
       const start = sink.offset;
-      if (old && rec && rec.key === part.key && rec.base === base && rec.pageOffset === pageNo && rec.total === totalPages && rec.kids.length === part.pages) {
+      const partLinks = isFront ? links : '';
+      if (old && rec && rec.key === part.key && rec.links === partLinks && rec.base === base && rec.pageOffset === pageNo && rec.total === totalPages && rec.kids.length === part.pages) {
         const bytes = Buffer.allocUnsafe(rec.end - rec.start);
         let got = 0;
         while (got < bytes.length) {
@@ -209,35 +227,43 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
         for (let k = 0; k < rec.count; k++) sink.offsets[sink.allocate()] = start + rec.rel[k];
         sink.write(bytes);
         kidsOf[i] = rec.kids;
-        reused++;
-      } else kidsOf[i] = copyPart(part, pageNo);
+        if (isFront) reusedFront++;
+        else reused++;
+      } else kidsOf[i] = copyPart(part, pageNo, isFront);
       firstPages[i] = kidsOf[i][0];
-      pageNo += part.pages;
-      if (part.file !== undefined) {
-        sheetFiles.set(part.file, firstPages[i]);
-        if (part.key !== undefined)
-          records[part.file] = {
-            key: part.key,
-            base,
-            count: sink.size - base,
-            pageOffset: pageNo - part.pages,
-            total: totalPages,
-            start,
-            end: sink.offset,
-            rel: sink.offsets.slice(base, sink.size).map((o) => o - start),
-            kids: kidsOf[i],
-          };
-      }
+      if (name !== undefined)
+        records[name] = {
+          key: part.key!,
+          links: partLinks,
+          base,
+          count: sink.size - base,
+          pageOffset: pageNo,
+          total: totalPages,
+          start,
+          end: sink.offset,
+          rel: sink.offsets.slice(base, sink.size).map((o) => o - start),
+          kids: kidsOf[i],
+        };
+    };
+    let pageNo = frontPages;
+    for (let i = front.length; i < parts.length; i++) {
+      place(i, pageNo);
+      pageNo += parts[i].pages;
+      if (parts[i].file !== undefined) sheetFiles.set(parts[i].file!, firstPages[i]);
+    }
+    links = front.length ? createHash('sha256').update(JSON.stringify([...sheetFiles])).digest('hex') : '';
+    pageNo = 0;
+    for (let i = 0; i < front.length; i++) {
+      place(i, pageNo);
+      pageNo += parts[i].pages;
     }
   } finally {
     if (old !== null) closeSync(old);
   }
-  kidsOf[0] = copyPart(summary, 0);
-  firstPages[0] = kidsOf[0][0];
   const kids = kidsOf.flat();
 
   /** Copy one part's objects, renumbered, with its pages stamped from page pageOffset + 1; returns its page objects. */
-  function copyPart(part: DossierPart, pageOffset: number): number[] {
+  function copyPart(part: DossierPart, pageOffset: number, isFront: boolean): number[] {
     const pdf = readPdf(readFileSync(part.path));
     if (pdf.pages.length !== part.pages) throw new Error(`internal error: ${part.path} has ${pdf.pages.length} pages, ${part.pages} expected`);
     const skip = new Set<number>([pdf.catalog, ...pdf.pageTreeNodes]);
@@ -245,7 +271,7 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
     // the summary's links to sheet files: URI actions naming a sheet of the dossier give way to
     // destinations inside it, so the actions themselves are not copied
     const actionFile = new Map<number, string>();
-    if (part === summary)
+    if (isFront)
       for (const [num, o] of pdf.objects) {
         const s = dictGet(o.value, '/S');
         const file = s?.k === 'atom' && s.text === '/URI' ? literalText(dictGet(o.value, '/URI')) : undefined;
@@ -312,9 +338,10 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
 
   sink.object(pagesNum, `<< /Type /Pages /Kids [${kids.map((k) => `${k} 0 R`).join(' ')}] /Count ${kids.length} >>`);
   if (outline) {
+    const f = front.length;
     writeOutline(sink, outlinesNum, [
-      { title: meta.summaryTitle, page: firstPages[0], children: [] },
-      ...(sheets.length ? [{ title: meta.sheetsTitle, page: firstPages[1], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[i + 1], children: [] })) }] : []),
+      ...(f ? [{ title: meta.summaryTitle, page: firstPages[0], children: [] }] : []),
+      ...(sheets.length ? [{ title: meta.sheetsTitle, page: firstPages[f], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[f + i], children: [] })) }] : []),
     ]);
     sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R /Outlines ${outlinesNum} 0 R /PageMode /UseOutlines >>`);
   } else sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R >>`);
@@ -333,7 +360,7 @@ function writeParts(sink: PdfSink, summary: DossierPart, sheets: DossierPart[], 
   }
   sink.write(xref);
   sink.write(`trailer\n<< /Size ${sink.size} /Root ${catalogNum} 0 R /Info ${infoNum} 0 R /ID [<${id}> <${id}>] >>\nstartxref\n${xrefAt}\n%%EOF\n`);
-  return { pages: totalPages, records, reused };
+  return { pages: totalPages, records, reused, reusedFront };
 }
 
 /** Add the stamp's font to a resource dictionary (once). */

@@ -1,99 +1,135 @@
-// Parallel sheet rendering: a pool of worker threads (piscina), one per core. The solve stays in the
-// main thread; each task carries one circuit's result, and the project and templates are given to
-// each worker once. The bytes of a sheet do not depend on which thread renders it or in which
-// order, so the output stays byte-identical to a serial build.
+// Parallel sheet rendering: a pool of worker threads (piscina), one per core at most. The solve
+// stays in the main thread; each task carries one circuit's result. The project and the template
+// files travel once per build, serialised into a SharedArrayBuffer that every task refers to (a
+// worker reads it on its first task of the build). The bytes of a sheet do not depend on which
+// thread renders it or in which order, so the output stays byte-identical to a serial build.
+//
+// The command line starts the pool before it reads the project (startSheetPool): a worker loads
+// pdfmake, Chart.js, canvas and the fonts on another core while the main thread loads and solves,
+// and a one-edit rebuild then renders its sheet there while the main thread lays out the summary.
 
 import { setMaxListeners } from 'node:events';
 import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { serialize } from 'node:v8';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { TemplateError, type TemplateSet } from './templates.js';
 import type { PoolData, SheetDone, SheetTask } from './sheet-worker.js';
 
-/** Fewer sheets than this render in the main thread (a worker's start-up costs about half a second). */
+/** Without a pool started early, fewer sheets than this render in the main thread (a worker's start-up costs about half a second). */
 export const POOL_FROM = 6;
 
 const workerScript = fileURLToPath(new URL('./sheet-worker.js', import.meta.url));
+
+/** False when running from TypeScript sources (tests): there is no compiled worker script to start. */
+export function poolAvailable(): boolean {
+  return import.meta.url.endsWith('.js') && existsSync(workerScript);
+}
 
 /**
  * How many worker threads a build rendering `sheets` sheets should use (0: render in the main
  * thread). `jobs` as asked for (--jobs) is followed; by default a few sheets render in the main thread.
  */
 export function workerCount(sheets: number, jobs?: number): number {
-  // Running from TypeScript sources (tests) there is no compiled worker script to start.
-  if (!import.meta.url.endsWith('.js') || !existsSync(workerScript)) return 0;
+  if (!poolAvailable()) return 0;
   if (jobs !== undefined) return jobs < 2 || sheets === 0 ? 0 : Math.min(jobs, sheets);
   const cores = availableParallelism();
   if (cores < 2 || sheets < POOL_FROM) return 0;
   return Math.min(cores, Math.ceil(sheets / 3));
 }
 
+/** Worker threads a pool started before the project is known may grow to: --jobs, or one per core. */
+export function earlyThreads(jobs?: number): number {
+  if (!poolAvailable()) return 0;
+  if (jobs !== undefined) return jobs < 2 ? 0 : jobs;
+  const cores = availableParallelism();
+  return cores < 2 ? 0 : cores;
+}
+
+type Answer = SheetDone | { templateError: { file: string; detail: string } };
+
+export interface SheetPool {
+  readonly maxThreads: number;
+  /**
+   * Render the sheets `indices` (positions in result.circuits); `onSheet` is called once per sheet,
+   * one call at a time, in completion order. Rejects on the first failure (or when `signal`
+   * aborts), after the tasks still running have stopped.
+   */
+  render(project: Project, result: ProjectResult, indices: number[], templates: TemplateSet, onSheet: (done: SheetDone) => Promise<void>, signal?: AbortSignal): Promise<void>;
+  destroy(): Promise<void>;
+}
+
+let generation = 0;
+
 /**
- * Render the sheets `indices` (positions in result.circuits) in `threads` worker threads; `onSheet`
- * is called once per sheet, one call at a time, in completion order. Rejects on the first failure
- * (or when `signal` aborts), after every worker has stopped.
+ * Start a pool of up to `maxThreads` workers. One worker starts at once (it loads the report
+ * modules); more start as tasks queue up.
  */
-export async function renderSheetsInPool(
-  project: Project,
-  result: ProjectResult,
-  indices: number[],
-  templates: TemplateSet,
-  threads: number,
-  onSheet: (done: SheetDone) => Promise<void>,
-  signal?: AbortSignal,
-): Promise<void> {
+export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
   // The canvas addon must stay loaded for the life of the process: when a worker that loaded it
   // first exits, its teardown unloads the library under the other threads (a segmentation fault).
-  // Loading it here, in the main thread, keeps it in memory until the process ends.
+  // Loading it here, in the main thread, before any worker, keeps it in memory until the process ends.
   await import('canvas');
   const { Piscina } = await import('piscina');
-  const files = templates.files();
-  const workerData: PoolData = {
-    project,
-    templates: { defaults: new Map(files.defaults), overrides: new Map(files.overrides), overrideRoot: files.overrideRoot },
-  };
-  const pool = new Piscina<SheetTask, SheetDone | { templateError: { file: string; detail: string } }>({
+  const pool = new Piscina<SheetTask, Answer>({
     filename: pathToFileURL(workerScript).href,
-    workerData,
-    minThreads: threads,
-    maxThreads: threads,
+    minThreads: 1,
+    maxThreads,
     idleTimeout: 60_000,
     // a larger young generation: a sheet allocates a lot of short-lived objects (fewer scavenges)
     resourceLimits: { maxYoungGenerationSizeMb: 96 },
   });
-  const local = new AbortController();
-  setMaxListeners(indices.length + 10, local.signal); // piscina listens once per queued task
-  const stop = (): void => local.abort();
-  signal?.addEventListener('abort', stop, { once: true });
-  let chain = Promise.resolve();
-  try {
-    const count = result.circuits.length;
-    // Promise.all rejects with the first failure in time; the tasks cancelled after it reject later.
-    await Promise.all(
-      indices.map(async (index) => {
-        try {
-          const cr = result.circuits[index];
-          // The solver samples chart series on first use (a non-enumerable getter, which a structured
-          // clone would drop): take them now so the worker gets plain data.
-          const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts } };
-          const done = await pool.run(task, { signal: local.signal });
-          if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
-          chain = chain.then(() => onSheet(done));
-          await chain;
-        } catch (err) {
-          local.abort(); // the first failure stops the rest
-          throw err;
-        }
-      }),
-    );
-  } catch (err) {
-    await chain.catch(() => undefined);
-    if (signal?.aborted) throw signal.reason ?? err;
-    throw err;
-  } finally {
-    signal?.removeEventListener('abort', stop);
-    await pool.destroy();
-  }
+  let destroyed: Promise<void> | null = null;
+  return {
+    maxThreads,
+    async render(project, result, indices, templates, onSheet, signal) {
+      const files = templates.files();
+      const packed: PoolData = {
+        project,
+        templates: { defaults: new Map(files.defaults), overrides: new Map(files.overrides), overrideRoot: files.overrideRoot },
+      };
+      const bytes = serialize(packed);
+      const shared = new SharedArrayBuffer(bytes.length);
+      new Uint8Array(shared).set(bytes);
+      const data = { generation: ++generation, buffer: shared };
+      const local = new AbortController();
+      setMaxListeners(indices.length + 10, local.signal); // piscina listens once per queued task
+      const stop = (): void => local.abort();
+      signal?.addEventListener('abort', stop, { once: true });
+      let chain = Promise.resolve();
+      try {
+        const count = result.circuits.length;
+        // Promise.all rejects with the first failure in time; the tasks cancelled after it reject later.
+        await Promise.all(
+          indices.map(async (index) => {
+            try {
+              const cr = result.circuits[index];
+              // The solver samples chart series on first use (a non-enumerable getter, which a structured
+              // clone would drop): take them now so the worker gets plain data.
+              const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, data };
+              const done = await pool.run(task, { signal: local.signal });
+              if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
+              chain = chain.then(() => onSheet(done));
+              await chain;
+            } catch (err) {
+              local.abort(); // the first failure stops the rest
+              throw err;
+            }
+          }),
+        );
+      } catch (err) {
+        await chain.catch(() => undefined);
+        if (signal?.aborted) throw signal.reason ?? err;
+        throw err;
+      } finally {
+        signal?.removeEventListener('abort', stop);
+      }
+    },
+    destroy() {
+      destroyed ??= pool.destroy();
+      return destroyed;
+    },
+  };
 }

@@ -1,7 +1,9 @@
-// A worker thread of the sheet pool (pool.ts): receives the project and the template files once,
-// as workerData, then renders the sheets it is given and hands back their bytes and page counts.
+// A worker thread of the sheet pool (pool.ts). Importing this module loads the report (pdfmake,
+// Chart.js, canvas, fonts) as the worker starts. Each task names the build's project and template
+// files, serialised once into shared memory; the worker reads them on its first task of that
+// build, then renders the sheets it is given and hands back their bytes and page counts.
 
-import { workerData } from 'node:worker_threads';
+import { deserialize } from 'node:v8';
 import type { Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 import { pdfPageCount } from './pdf-file.js';
@@ -18,6 +20,7 @@ export interface SheetTask {
   index: number; // position in the result's circuit order (the sheet says "sheet n of N")
   count: number;
   circuit: CircuitResult; // with its chart series taken (plain data)
+  data: { generation: number; buffer: SharedArrayBuffer }; // PoolData, serialised (node:v8)
 }
 
 export interface SheetDone {
@@ -26,13 +29,21 @@ export interface SheetDone {
   pages: number;
 }
 
-const data = workerData as PoolData;
-const project = data.project;
-const templates = new TemplateSet(data.templates.defaults, data.templates.overrides, data.templates.overrideRoot);
+const renderer = defaultRenderer(); // the fonts are read now, while the main thread loads the project
+let current: { generation: number; project: Project; templates: TemplateSet } | null = null;
+
+function build(data: SheetTask['data']): { project: Project; templates: TemplateSet } {
+  if (current?.generation !== data.generation) {
+    const d = deserialize(new Uint8Array(data.buffer)) as PoolData;
+    current = { generation: data.generation, project: d.project, templates: new TemplateSet(d.templates.defaults, d.templates.overrides, d.templates.overrideRoot) };
+  }
+  return current;
+}
 
 export default async function renderTask(task: SheetTask): Promise<SheetDone | { templateError: { file: string; detail: string } }> {
   try {
-    const bytes = await renderCircuitSheet(project, task.circuit, task.index, task.count, templates, defaultRenderer());
+    const { project, templates } = build(task.data);
+    const bytes = await renderCircuitSheet(project, task.circuit, task.index, task.count, templates, renderer);
     const out = new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     return { index: task.index, bytes: out, pages: pdfPageCount(out) }; // copied across (a sheet is a few hundred kB)
   } catch (err) {

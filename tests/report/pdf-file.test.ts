@@ -85,7 +85,7 @@ describe('joining PDFs into a dossier', () => {
       { path: await write('B.pdf', 1, 'Sheet B'), pages: 1, title: 'B — ünïcode Ω', file: 'B.pdf' },
     ];
     dossier = path.join(root, 'dossier.pdf');
-    writeDossier(dossier, parts[0], parts.slice(1), { title: 'Dossier', subject: 'Test', date: new Date(Date.UTC(2026, 10, 20)), summaryTitle: 'Summary', sheetsTitle: 'Sheets', pageLabel: 'Dossier page {n} of {total}' });
+    writeDossier(dossier, [parts[0]], parts.slice(1), { title: 'Dossier', subject: 'Test', date: new Date(Date.UTC(2026, 10, 20)), summaryTitle: 'Summary', sheetsTitle: 'Sheets', pageLabel: 'Dossier page {n} of {total}' });
   });
 
   it('has every page of every part in order, each stamped with its dossier page number (read by poppler)', () => {
@@ -128,11 +128,11 @@ describe('joining PDFs into a dossier', () => {
 
   it('gives the same bytes for the same parts', () => {
     const again = path.join(root, 'again.pdf');
-    writeDossier(again, parts[0], parts.slice(1), { title: 'Dossier', subject: 'Test', date: new Date(Date.UTC(2026, 10, 20)), summaryTitle: 'Summary', sheetsTitle: 'Sheets', pageLabel: 'Dossier page {n} of {total}' });
+    writeDossier(again, [parts[0]], parts.slice(1), { title: 'Dossier', subject: 'Test', date: new Date(Date.UTC(2026, 10, 20)), summaryTitle: 'Summary', sheetsTitle: 'Sheets', pageLabel: 'Dossier page {n} of {total}' });
     expect(readFileSync(again).equals(readFileSync(dossier))).toBe(true);
   });
 
   it('refuses to overwrite an existing file', () => {
-    expect(() => writeDossier(dossier, parts[0], [], { title: '', subject: '', date: new Date(0), summaryTitle: '', sheetsTitle: '' })).toThrow(/EEXIST/);
+    expect(() => writeDossier(dossier, [parts[0]], [], { title: '', subject: '', date: new Date(0), summaryTitle: '', sheetsTitle: '' })).toThrow(/EEXIST/);
   });
 });

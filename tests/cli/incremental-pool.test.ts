@@ -1,0 +1,64 @@
+// The compiled program as a user runs it, on a one-edit rebuild: the edited sheet renders on a
+// worker thread while the main thread lays out the summary with the page counts of the last build
+// (report/build.ts). The files must be those of a full build of the edited project, byte for byte,
+// also when the edit changes the edited sheet's page count (the summary is then laid out again).
+import { spawnSync } from 'node:child_process';
+import { cpSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoDir, repoRoot, tempDir } from './run.js';
+
+const bin = path.join(repoRoot, 'bin', 'faultsheet.js');
+let tmp: { dir: string; remove: () => Promise<void> };
+beforeAll(async () => {
+  tmp = await tempDir();
+  cpSync(demoDir('nec-480v'), path.join(tmp.dir, 'p'), { recursive: true, filter: (src) => !src.includes(`${path.sep}out`) });
+});
+afterAll(async () => {
+  await tmp.remove();
+});
+
+function build(out: string, ...extra: string[]): { code: number | null; stderr: string } {
+  const r = spawnSync(process.execPath, [bin, 'build', 'p', '--out', out, '--quiet', '--jobs', '2', ...extra], {
+    cwd: tmp.dir,
+    env: { ...process.env, FAULTSHEET_TIMINGS: '1' },
+    encoding: 'utf8',
+  });
+  return { code: r.status, stderr: r.stderr };
+}
+
+const files = (dir: string): Record<string, string> =>
+  Object.fromEntries(
+    readdirSync(path.join(tmp.dir, dir))
+      .filter((f) => f !== '.faultsheet-cache')
+      .sort()
+      .map((f) => [f, readFileSync(path.join(tmp.dir, dir, f)).toString('base64')]),
+  );
+
+const circuit = (): string => path.join(tmp.dir, 'p', 'circuits', 'DP2-1.yaml');
+const pages = (pdf: string): number => Number(/\/Type \/Pages[^>]*\/Count (\d+)/.exec(readFileSync(path.join(tmp.dir, pdf), 'latin1'))?.[1]);
+
+describe('a one-edit rebuild with the sheet on a worker thread', () => {
+  it('gives the bytes of a full build, whether or not the edit changes the sheet\'s page count', async () => {
+    expect(build('out').code).toBe(0);
+    const sheetPages = pages('out/DP2-1.pdf');
+
+    // an edit that keeps the page count: the summary laid out beside the sheet is the one kept
+    writeFileSync(circuit(), readFileSync(circuit(), 'utf8').replace('length: 150 ft', 'length: 160 ft'));
+    const edit = build('out');
+    expect(edit.code).toBe(0);
+    expect(edit.stderr).toMatch(/plan and cache \(1 to render, \d+ kept\)/);
+    expect(edit.stderr).toMatch(/sheets \(up to \d+ worker threads\)/);
+    expect(pages('out/DP2-1.pdf')).toBe(sheetPages);
+    expect(build('full', '--force').code).toBe(0);
+    expect(files('out')).toEqual(files('full'));
+
+    // an edit that adds pages to the sheet (forty assumptions): every later sheet moves in the dossier
+    const many = Array.from({ length: 40 }, (_, i) => `  - Assumption ${i + 1} of a long list, written to make the sheet longer than it was.`).join('\n');
+    writeFileSync(circuit(), `${readFileSync(circuit(), 'utf8')}\nassumptions:\n${many}\n`);
+    expect(build('out').code).toBe(0);
+    expect(pages('out/DP2-1.pdf')).toBeGreaterThan(sheetPages);
+    expect(build('full2', '--force').code).toBe(0);
+    expect(files('out')).toEqual(files('full2'));
+  }, 180_000);
+});
