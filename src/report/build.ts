@@ -11,8 +11,8 @@ import { CACHE_DIR, MANIFEST_FILE, cachedSummaryPart, emptyManifest, previousJoi
 import { writeDossier } from './dossier.js';
 import { pdfPageCount } from './pdf-file.js';
 import { DOSSIER_FILE, RESULTS_FILE, SUMMARY_FILE, planOutputs } from './plan.js';
-import { startSheetPool, workerCount, type SheetPool } from './pool.js';
-import { defaultRenderer, type Renderer } from './render.js';
+import { POOL_FROM, startSheetPool, workerCount, type SheetPool } from './pool.js';
+import type { Renderer } from './render.js';
 import { projectDate } from './sheet.js';
 import { projectTemplates, renderSheet } from './sheets.js';
 import { summaryPartDocument, summaryParts } from './summary.js';
@@ -41,7 +41,8 @@ export interface BuildOptions {
   renderer?: Renderer;
   /**
    * Worker threads started before the project was read (the command line does, pool.ts): used for
-   * any sheet to render, however few, and left running for the caller to destroy.
+   * any sheet to render, however few, and stopped by the build once its sheets are rendered (their
+   * memory is then free for the summary and the dossier).
    */
   pool?: SheetPool;
 }
@@ -76,6 +77,8 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
   const signal = opts.signal;
   signal?.throwIfAborted();
   const staging = await openStaging(outDir);
+  let stopping: Promise<void> | undefined; // the workers' ending, awaited before the build returns
+  let later: SheetPool | undefined; // workers to stop once the build is done
   try {
     const total = result.circuits.length;
     const projectPrint = projectFingerprint(project, templates);
@@ -84,6 +87,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     const pages: number[] = new Array(total);
     const toRender: number[] = [];
     const keys = result.circuits.map((cr, i) => sheetKey(projectPrint, project, cr, i, total));
+    const keptSheets: number[] = [];
     for (let i = 0; i < total; i++) {
       const file = plan.sheets[i].file;
       const kept = reusable(staging.outDir, previous, file, keys[i]);
@@ -91,11 +95,10 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         toRender.push(i);
         continue;
       }
-      await staging.adopt(file, path.join(staging.outDir, file));
+      keptSheets.push(i);
       pages[i] = kept.pages;
       manifest.sheets[file] = kept;
     }
-    clock(`plan and cache (${toRender.length} to render, ${total - toRender.length} kept)`);
     opts.onPlan?.(toRender.length, total - toRender.length);
     signal?.throwIfAborted();
 
@@ -109,48 +112,65 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       manifest.sheets[file] = { key: keys[i], pages: pageCount, size: st.size, mtimeMs: st.mtimeMs };
       opts.onProgress?.(++done, toRender.length, result.circuits[i].id);
     };
-    const renderer = opts.renderer ?? defaultRenderer();
-    const summaryCtx = { templates, renderer, projectPrint, previous, outDir: staging.outDir, made: new Map<string, SummaryPart>() };
     let summary: LaidOutSummary | null = null;
+    const made = new Map<string, SummaryPart>(); // summary parts laid out by this build
+    let renderer: Renderer | undefined;
     const threads = opts.renderer || toRender.length === 0 ? 0 : opts.pool ? opts.pool.maxThreads : workerCount(toRender.length, opts.jobs);
-    if (threads > 0) {
-      const pool = opts.pool ?? (await startSheetPool(threads));
-      // The sheets render on the workers while this thread lays out the summary, when the last
-      // build says how many pages each of them had (an edit seldom changes that; if it does, the
-      // summary is laid out again with the counts the sheets have).
-      const guess = previous && toRender.every((i) => (previous.sheets[plan.sheets[i].file]?.pages ?? 0) >= 1) ? Array.from(pages, (p, i) => p ?? previous.sheets[plan.sheets[i].file].pages) : null;
-      const local = new AbortController(); // the first failure, or an interruption, stops both
-      const stop = (): void => local.abort(signal?.reason);
-      signal?.addEventListener('abort', stop, { once: true });
-      let first: { err: unknown } | null = null;
-      const fail = (err: unknown): null => {
-        first ??= { err };
-        local.abort();
-        return null;
-      };
-      try {
-        const [, early] = await Promise.all([
-          pool.render(project, result, toRender, templates, (s) => accept(s.index, s.bytes, s.pages), local.signal).catch(fail),
-          guess ? layOutSummary(project, result, { ...summaryCtx, pages: guess, signal: local.signal }).catch(fail) : null,
-        ]);
-        if (first) throw (first as { err: unknown }).err;
+    if (threads === 0) stopping = opts.pool?.destroy(); // not needed: nothing to render, or rendering here
+    const pool = threads > 0 ? (opts.pool ?? (await startSheetPool(threads))) : null;
+    // The sheets start rendering on the workers now; meanwhile this thread takes the kept sheets
+    // over, loads the layout code and, when the last build says how many pages each sheet to render
+    // had (an edit seldom changes that), lays out the summary with those counts (again below, with
+    // the counts the sheets have, if one changed).
+    const local = new AbortController(); // the first failure, or an interruption, stops both
+    const stop = (): void => local.abort(signal?.reason);
+    signal?.addEventListener('abort', stop, { once: true });
+    let first: { err: unknown } | null = null;
+    const fail = (err: unknown): null => {
+      first ??= { err };
+      local.abort();
+      return null;
+    };
+    const rendering = pool ? pool.render(project, result, toRender, templates, (s) => accept(s.index, s.bytes, s.pages), local.signal).catch(fail) : null;
+    try {
+      for (const i of keptSheets) {
+        if (first) break;
+        await staging.adopt(plan.sheets[i].file, path.join(staging.outDir, plan.sheets[i].file));
+      }
+      clock(`plan and cache (${toRender.length} to render, ${total - toRender.length} kept)`);
+      const { defaultRenderer } = await import('./render.js'); // pdfmake and Chart.js: loaded while the workers render
+      renderer = opts.renderer ?? defaultRenderer();
+      const summaryCtx = { templates, renderer, projectPrint, previous, outDir: staging.outDir, made };
+      if (rendering) {
+        const guess = previous && toRender.every((i) => (previous.sheets[plan.sheets[i].file]?.pages ?? 0) >= 1) ? Array.from(pages, (p, i) => p ?? previous.sheets[plan.sheets[i].file].pages) : null;
+        const early = guess && !first ? await layOutSummary(project, result, { ...summaryCtx, pages: guess, signal: local.signal }).catch(fail) : null;
+        await rendering;
         if (early && guess!.every((p, i) => p === pages[i])) summary = early;
-      } finally {
-        signal?.removeEventListener('abort', stop);
-        if (!opts.pool) await pool.destroy();
-      }
-    } else
-      for (const i of toRender) {
-        const bytes = await renderSheet(project, result, i, templates, renderer);
-        await accept(i, bytes, pdfPageCount(bytes));
-      }
+      } else
+        for (const i of toRender) {
+          const bytes = await renderSheet(project, result, i, templates, renderer);
+          await accept(i, bytes, pdfPageCount(bytes));
+        }
+      if (first) throw (first as { err: unknown }).err;
+    } catch (err) {
+      local.abort();
+      await rendering; // the workers have stopped writing before the staging folder goes
+      throw first ? (first as { err: unknown }).err : err;
+    } finally {
+      signal?.removeEventListener('abort', stop);
+      // After a batch the workers are stopped now, so their memory is free for the summary and
+      // the dossier; after a sheet or two they are stopped at the end, their teardown out of the
+      // dossier's way (on two cores it slowed the dossier's copying by half).
+      if (pool && toRender.length >= POOL_FROM) stopping = pool.destroy();
+      else if (pool) later = pool;
+    }
     signal?.throwIfAborted();
 
     clock(`sheets (${threads > 0 ? `up to ${threads} worker threads` : 'main thread'})`);
     // The summary, laid out part by part (summary.ts summaryParts), each part cached like a sheet,
     // then joined into summary.pdf.
     const labels = templates.labels('summary/labels.hbs');
-    summary ??= await layOutSummary(project, result, { ...summaryCtx, pages, signal });
+    summary ??= await layOutSummary(project, result, { templates, renderer: renderer!, projectPrint, previous, outDir: staging.outDir, made, pages, signal });
     for (const part of summary.parts)
       if (part.bytes) await staging.write(`${CACHE_DIR}/${part.file}`, part.bytes);
       else await staging.adopt(`${CACHE_DIR}/${part.file}`, path.join(staging.outDir, CACHE_DIR, part.file));
@@ -217,6 +237,8 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
   } catch (err) {
     await staging.discard();
     throw err;
+  } finally {
+    await (later?.destroy() ?? stopping);
   }
 }
 

@@ -9,7 +9,7 @@
 
 import { closeSync, openSync, readFileSync, readSync, writevSync } from 'node:fs';
 import { createHash } from 'node:crypto';
-import { StandardFontEmbedder, StandardFonts } from 'pdf-lib';
+import { Encodings, Font, FontNames } from '@pdf-lib/standard-fonts';
 import { dictDelete, dictGet, dictSet, literalText, readPdf, serialize, textString, type PdfValue } from './pdf-file.js';
 
 export interface DossierPart {
@@ -113,9 +113,40 @@ function pdfDate(d: Date): string {
   return `(D:${p(d.getUTCFullYear(), 4)}${p(d.getUTCMonth() + 1)}${p(d.getUTCDate())}${p(d.getUTCHours())}${p(d.getUTCMinutes())}${p(d.getUTCSeconds())}Z)`;
 }
 
-/** Characters outside WinAnsi (the standard font's encoding) print as "?". */
-function winAnsiSafe(text: string, font: StandardFontEmbedder): string {
-  return [...text].map((ch) => (font.encoding.canEncodeUnicodeCodePoint(ch.codePointAt(0)!) ? ch : '?')).join('');
+/**
+ * Helvetica, one of the standard fonts of PDF (32000-1:2008 9.6.2.2), in WinAnsi encoding: widths
+ * and kerning from its Adobe font metrics (@pdf-lib/standard-fonts). Characters outside WinAnsi
+ * print as "?".
+ */
+class Helvetica {
+  private readonly font = Font.load(FontNames.Helvetica);
+  private readonly encoding = Encodings.WinAnsi;
+
+  safe(text: string): string {
+    return [...text].map((ch) => (this.encoding.canEncodeUnicodeCodePoint(ch.codePointAt(0)!) ? ch : '?')).join('');
+  }
+
+  private glyphs(text: string): Array<{ code: number; name: string }> {
+    return [...text].map((ch) => this.encoding.encodeUnicodeCodePoint(ch.codePointAt(0)!));
+  }
+
+  /** Width of `text` at `size` points, kerned. */
+  width(text: string, size: number): number {
+    const glyphs = this.glyphs(text);
+    let total = 0;
+    glyphs.forEach((g, i) => {
+      const next = glyphs[i + 1]?.name;
+      total += (this.font.getWidthOfGlyph(g.name) || 250) + ((next !== undefined ? this.font.getXAxisKerningForPair(g.name, next) : 0) || 0);
+    });
+    return (total * size) / 1000;
+  }
+
+  /** `text` as a PDF hex string of its WinAnsi codes. */
+  hex(text: string): string {
+    return `<${this.glyphs(text)
+      .map((g) => g.code.toString(16).padStart(2, '0').toUpperCase())
+      .join('')}>`;
+  }
 }
 
 /**
@@ -179,7 +210,7 @@ function writeParts(sink: PdfSink, front: DossierPart[], sheets: DossierPart[], 
   const outline = meta.outline !== false;
   const outlinesNum = outline ? sink.allocate() : 0;
   const infoNum = sink.allocate();
-  const stamp = meta.pageLabel ? StandardFontEmbedder.for(StandardFonts.Helvetica as unknown as Parameters<typeof StandardFontEmbedder.for>[0]) : null;
+  const stamp = meta.pageLabel ? new Helvetica() : null;
   let fontNum = 0;
   let saveNum = 0;
   let restoreNum = 0;
@@ -298,12 +329,12 @@ function writeParts(sink: PdfSink, front: DossierPart[], sheets: DossierPart[], 
       const res = dictGet(value, '/Resources');
       if (stamp) {
         pageNo++;
-        const text = winAnsiSafe(meta.pageLabel!.replace('{n}', String(pageNo)).replace('{total}', String(totalPages)), stamp);
+        const text = stamp.safe(meta.pageLabel!.replace('{n}', String(pageNo)).replace('{total}', String(totalPages)));
         const size = 6.5;
         const width = dictGet(value, '/MediaBox');
         const pageWidth = width?.k === 'array' && width.items[2]?.k === 'atom' ? Number(width.items[2].text) : 595.28;
-        const x = (pageWidth - stamp.widthOfTextAtSize(text, size)) / 2;
-        const hex = stamp.encodeText(text).toString();
+        const x = (pageWidth - stamp.width(text, size)) / 2;
+        const hex = stamp.hex(text);
         const content = `BT\n/FSpg ${size} Tf\n0.45 0.5 0.56 rg\n${x.toFixed(3)} 14 Td\n${hex} Tj\nET`;
         const stampNum = sink.allocate();
         sink.object(stampNum, `<< /Length ${Buffer.byteLength(content, 'latin1')} >>\nstream`, Buffer.from(`${content}\nendstream`, 'latin1'));
@@ -348,8 +379,9 @@ function writeParts(sink: PdfSink, front: DossierPart[], sheets: DossierPart[], 
   const date = pdfDate(meta.date);
   sink.object(infoNum, `<< /Title ${textString(meta.title)} /Subject ${textString(meta.subject)} /Creator (faultsheet) /Producer (faultsheet) /CreationDate ${date} /ModDate ${date} >>`);
 
+  // a front part's file is a cache name (it changes with the tool): not part of the document's id
   const id = createHash('md5')
-    .update(JSON.stringify({ meta: { ...meta, date: meta.date.toISOString() }, parts: parts.map((p) => [p.title, p.pages, p.file ?? '']) }))
+    .update(JSON.stringify({ meta: { ...meta, date: meta.date.toISOString() }, parts: parts.map((p, i) => [p.title, p.pages, i < front.length ? '' : (p.file ?? '')]) }))
     .digest('hex');
   const xrefAt = sink.offset;
   let xref = `xref\n0 ${sink.size}\n0000000000 65535 f \n`;
