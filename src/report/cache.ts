@@ -105,7 +105,7 @@ function toolFingerprint(): string {
   const h = createHash('sha256');
   const here = path.dirname(fileURLToPath(import.meta.url));
   const require = createRequire(import.meta.url);
-  for (const pkg of ['../../package.json', 'pdfmake/package.json', 'chart.js/package.json', 'canvas/package.json', 'pdf-lib/package.json']) {
+  for (const pkg of ['../../package.json', 'pdfmake/package.json', 'chart.js/package.json', 'canvas/package.json', '@pdf-lib/standard-fonts/package.json']) {
     try {
       const file = pkg.startsWith('.') ? path.join(here, pkg) : require.resolve(pkg);
       h.update(`${pkg}:${(JSON.parse(readFileSync(file, 'utf8')) as { version?: string }).version ?? ''}\n`);

@@ -86,14 +86,18 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
     maxThreads,
     async render(project, result, indices, templates, onSheet, signal) {
       const files = templates.files();
+      // a sheet shows its own circuit and device only: the rest of the project travels once, and each
+      // task brings those two (a worker then holds no copy of every circuit)
       const packed: PoolData = {
-        project,
+        project: { ...project, circuits: [], devices: [] },
         templates: { defaults: new Map(files.defaults), overrides: new Map(files.overrides), overrideRoot: files.overrideRoot },
       };
       const bytes = serialize(packed);
       const shared = new SharedArrayBuffer(bytes.length);
       new Uint8Array(shared).set(bytes);
       const data = { generation: ++generation, buffer: shared };
+      const circuitOf = new Map(project.circuits.map((c) => [c.id, c]));
+      const deviceOf = new Map(project.devices.map((d) => [d.id, d]));
       const local = new AbortController();
       setMaxListeners(indices.length + 10, local.signal); // piscina listens once per queued task
       const stop = (): void => local.abort();
@@ -108,7 +112,10 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
               const cr = result.circuits[index];
               // The solver samples chart series on first use (a non-enumerable getter, which a structured
               // clone would drop): take them now so the worker gets plain data.
-              const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, data };
+              const input = circuitOf.get(cr.id);
+              if (!input) throw new Error(`internal error: circuit ${cr.id} is in the result but not in the project`);
+              const device = deviceOf.get(cr.device);
+              const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device, data };
               const done = await pool.run(task, { signal: local.signal });
               if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
               chain = chain.then(() => onSheet(done));

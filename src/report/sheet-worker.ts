@@ -1,10 +1,11 @@
 // A worker thread of the sheet pool (pool.ts). Importing this module loads the report (pdfmake,
-// Chart.js, canvas, fonts) as the worker starts. Each task names the build's project and template
-// files, serialised once into shared memory; the worker reads them on its first task of that
-// build, then renders the sheets it is given and hands back their bytes and page counts.
+// Chart.js, canvas, fonts) as the worker starts. Each task brings one circuit (input, device,
+// result) and names the rest of the build's project and its template files, serialised once into
+// shared memory; the worker reads those on its first task of that build, renders the sheets it is
+// given and hands back their bytes and page counts.
 
 import { deserialize } from 'node:v8';
-import type { Project } from '../model/types.js';
+import type { Circuit, Device, Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 import { pdfPageCount } from './pdf-file.js';
 import { defaultRenderer } from './render.js';
@@ -12,7 +13,7 @@ import { renderCircuitSheet } from './sheets.js';
 import { TemplateError, TemplateSet } from './templates.js';
 
 export interface PoolData {
-  project: Project;
+  project: Project; // without its circuits and devices (each task brings its own)
   templates: { defaults: Map<string, string>; overrides: Map<string, string>; overrideRoot: string };
 }
 
@@ -20,6 +21,8 @@ export interface SheetTask {
   index: number; // position in the result's circuit order (the sheet says "sheet n of N")
   count: number;
   circuit: CircuitResult; // with its chart series taken (plain data)
+  input: Circuit; // the circuit as read
+  device?: Device; // its device, if the project has it
   data: { generation: number; buffer: SharedArrayBuffer }; // PoolData, serialised (node:v8)
 }
 
@@ -42,7 +45,8 @@ function build(data: SheetTask['data']): { project: Project; templates: Template
 
 export default async function renderTask(task: SheetTask): Promise<SheetDone | { templateError: { file: string; detail: string } }> {
   try {
-    const { project, templates } = build(task.data);
+    const { project: rest, templates } = build(task.data);
+    const project: Project = { ...rest, circuits: [task.input], devices: task.device ? [task.device] : [] };
     const bytes = await renderCircuitSheet(project, task.circuit, task.index, task.count, templates, renderer);
     const out = new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     return { index: task.index, bytes: out, pages: pdfPageCount(out) }; // copied across (a sheet is a few hundred kB)
