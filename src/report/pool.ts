@@ -8,7 +8,6 @@
 // pdfmake, Chart.js, canvas and the fonts on another core while the main thread loads and solves,
 // and a one-edit rebuild then renders its sheet there while the main thread lays out the summary.
 
-import { setMaxListeners } from 'node:events';
 import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -98,41 +97,36 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
       const data = { generation: ++generation, buffer: shared };
       const circuitOf = new Map(project.circuits.map((c) => [c.id, c]));
       const deviceOf = new Map(project.devices.map((d) => [d.id, d]));
-      const local = new AbortController();
-      setMaxListeners(indices.length + 10, local.signal); // piscina listens once per queued task
-      const stop = (): void => local.abort();
-      signal?.addEventListener('abort', stop, { once: true });
+      // Each of maxThreads lanes hands its worker the next sheet as soon as the last is back. A
+      // failure or an interruption stops the lanes from starting more, but a sheet already running
+      // is let finish: cutting a worker off inside the canvas addon aborts the whole process (a
+      // fatal N-API error, seen here when a build was interrupted mid-chart).
+      const count = result.circuits.length;
+      let next = 0;
+      let first: { err: unknown } | null = null;
+      const stopped = (): boolean => first !== null || signal?.aborted === true;
       let chain = Promise.resolve();
-      try {
-        const count = result.circuits.length;
-        // Promise.all rejects with the first failure in time; the tasks cancelled after it reject later.
-        await Promise.all(
-          indices.map(async (index) => {
-            try {
-              const cr = result.circuits[index];
-              // The solver samples chart series on first use (a non-enumerable getter, which a structured
-              // clone would drop): take them now so the worker gets plain data.
-              const input = circuitOf.get(cr.id);
-              if (!input) throw new Error(`internal error: circuit ${cr.id} is in the result but not in the project`);
-              const device = deviceOf.get(cr.device);
-              const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device, data };
-              const done = await pool.run(task, { signal: local.signal });
-              if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
-              chain = chain.then(() => onSheet(done));
-              await chain;
-            } catch (err) {
-              local.abort(); // the first failure stops the rest
-              throw err;
-            }
-          }),
-        );
-      } catch (err) {
-        await chain.catch(() => undefined);
-        if (signal?.aborted) throw signal.reason ?? err;
-        throw err;
-      } finally {
-        signal?.removeEventListener('abort', stop);
-      }
+      const lane = async (): Promise<void> => {
+        while (next < indices.length && !stopped()) {
+          const index = indices[next++];
+          const cr = result.circuits[index];
+          const input = circuitOf.get(cr.id);
+          if (!input) throw new Error(`internal error: circuit ${cr.id} is in the result but not in the project`);
+          // The solver samples chart series on first use (a non-enumerable getter, which a structured
+          // clone would drop): take them now so the worker gets plain data.
+          const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device: deviceOf.get(cr.device), data };
+          const done = await pool.run(task);
+          if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
+          if (stopped()) return;
+          // the sheets are taken one at a time, in completion order, while the worker goes on
+          chain = chain.then(() => (stopped() ? undefined : onSheet(done))).catch((err: unknown) => void (first ??= { err }));
+        }
+      };
+      const lanes = Array.from({ length: Math.min(maxThreads, indices.length) }, () => lane().catch((err: unknown) => void (first ??= { err })));
+      await Promise.all(lanes);
+      await chain;
+      if (signal?.aborted) throw signal.reason ?? new Error('aborted');
+      if (first) throw (first as { err: unknown }).err;
     },
     destroy() {
       destroyed ??= pool.destroy();
