@@ -3,23 +3,21 @@
 // (report/build.ts). The files must be those of a full build of the edited project, byte for byte,
 // also when the edit changes the edited sheet's page count (the summary is then laid out again).
 import { spawnSync } from 'node:child_process';
-import { cpSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoDir, repoRoot, tempDir } from './run.js';
+import { binPath, builtFiles, demoCopy } from './run.js';
 
-const bin = path.join(repoRoot, 'bin', 'faultsheet.js');
 let tmp: { dir: string; remove: () => Promise<void> };
 beforeAll(async () => {
-  tmp = await tempDir();
-  cpSync(demoDir('nec-480v'), path.join(tmp.dir, 'p'), { recursive: true, filter: (src) => !src.includes(`${path.sep}out`) });
+  tmp = await demoCopy('nec-480v');
 });
 afterAll(async () => {
   await tmp.remove();
 });
 
 function build(out: string, ...extra: string[]): { code: number | null; stderr: string } {
-  const r = spawnSync(process.execPath, [bin, 'build', 'p', '--out', out, '--quiet', '--jobs', '2', ...extra], {
+  const r = spawnSync(process.execPath, [binPath, 'build', 'p', '--out', out, '--quiet', '--jobs', '2', ...extra], {
     cwd: tmp.dir,
     env: { ...process.env, FAULTSHEET_TIMINGS: '1' },
     encoding: 'utf8',
@@ -27,13 +25,7 @@ function build(out: string, ...extra: string[]): { code: number | null; stderr: 
   return { code: r.status, stderr: r.stderr };
 }
 
-const files = (dir: string): Record<string, string> =>
-  Object.fromEntries(
-    readdirSync(path.join(tmp.dir, dir))
-      .filter((f) => f !== '.faultsheet-cache')
-      .sort()
-      .map((f) => [f, readFileSync(path.join(tmp.dir, dir, f)).toString('base64')]),
-  );
+const files = (dir: string): Record<string, string> => builtFiles(path.join(tmp.dir, dir));
 
 const circuit = (): string => path.join(tmp.dir, 'p', 'circuits', 'DP2-1.yaml');
 const pages = (pdf: string): number => Number(/\/Type \/Pages[^>]*\/Count (\d+)/.exec(readFileSync(path.join(tmp.dir, pdf), 'latin1'))?.[1]);

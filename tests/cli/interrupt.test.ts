@@ -1,16 +1,14 @@
 // The compiled program as a user runs it: sheets rendered on worker threads give the same files as
 // rendering in the main thread, and an interrupted build (SIGINT) leaves OUT as it was.
 import { spawn } from 'node:child_process';
-import { cpSync, existsSync, readFileSync, readdirSync } from 'node:fs';
+import { existsSync, readdirSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoDir, hasStack, repoRoot, tempDir } from './run.js';
+import { binPath, builtFiles, demoCopy, hasStack } from './run.js';
 
-const bin = path.join(repoRoot, 'bin', 'faultsheet.js');
 let tmp: { dir: string; remove: () => Promise<void> };
 beforeAll(async () => {
-  tmp = await tempDir();
-  cpSync(demoDir('nec-480v'), path.join(tmp.dir, 'p'), { recursive: true, filter: (src) => !src.includes(`${path.sep}out`) });
+  tmp = await demoCopy('nec-480v');
 });
 afterAll(async () => {
   await tmp.remove();
@@ -25,7 +23,7 @@ interface Spawned {
 
 function faultsheet(args: string[], opts: { onStart?: (kill: () => void) => void } = {}): Promise<Spawned> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [bin, ...args], { cwd: tmp.dir, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(process.execPath, [binPath, ...args], { cwd: tmp.dir, stdio: ['ignore', 'pipe', 'pipe'] });
     let stdout = '';
     let stderr = '';
     child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
@@ -36,14 +34,6 @@ function faultsheet(args: string[], opts: { onStart?: (kill: () => void) => void
   });
 }
 
-const files = (dir: string): Record<string, string> =>
-  Object.fromEntries(
-    readdirSync(dir)
-      .filter((f) => f !== '.faultsheet-cache')
-      .sort()
-      .map((f) => [f, readFileSync(path.join(dir, f)).toString('base64')]),
-  );
-
 describe('the compiled program', () => {
   it('renders on two worker threads the same bytes as in the main thread', async () => {
     const pool = await faultsheet(['build', 'p', '--out', 'pool', '--jobs', '2']);
@@ -51,12 +41,12 @@ describe('the compiled program', () => {
     expect(pool.code).toBe(0);
     const serial = await faultsheet(['build', 'p', '--out', 'serial', '--jobs', '1']);
     expect(serial.code).toBe(0);
-    expect(files(path.join(tmp.dir, 'pool'))).toEqual(files(path.join(tmp.dir, 'serial')));
+    expect(builtFiles(path.join(tmp.dir, 'pool'))).toEqual(builtFiles(path.join(tmp.dir, 'serial')));
   }, 120_000);
 
   it('leaves OUT as it was when the build is interrupted (SIGINT), and says so, whenever in the rendering it comes', async () => {
     const out = path.join(tmp.dir, 'pool');
-    const before = files(out);
+    const before = builtFiles(out);
     // interrupt once the build has opened its staging folder beside OUT (it renders every sheet:
     // --force), at several moments of the rendering: a worker cut off inside the canvas addon
     // aborted the whole process with a fatal N-API error in about one interrupt in four
@@ -74,7 +64,7 @@ describe('the compiled program', () => {
       expect([delay, r.signal, r.code]).toEqual([delay, null, 130]);
       expect(r.stderr).toMatch(/^interrupted: /);
       expect(hasStack(r.stderr)).toBe(false);
-      expect(files(out)).toEqual(before);
+      expect(builtFiles(out)).toEqual(before);
       expect(readdirSync(tmp.dir).filter((f) => f.startsWith('.tmp-'))).toEqual([]);
       expect(existsSync(path.join(out, '.faultsheet-cache', 'manifest.json'))).toBe(true);
     }

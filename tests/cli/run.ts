@@ -1,6 +1,7 @@
 // Runs the command line in-process with fake streams (faster than spawning a process).
 
 import { Writable } from 'node:stream';
+import { cpSync, readFileSync, readdirSync } from 'node:fs';
 import { mkdtemp, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
@@ -44,6 +45,26 @@ export async function run(argv: string[], cwd = repoRoot): Promise<RunResult> {
 export async function tempDir(): Promise<{ dir: string; remove: () => Promise<void> }> {
   const dir = await mkdtemp(path.join(os.tmpdir(), 'faultsheet-cli-'));
   return { dir, remove: () => rm(dir, { recursive: true, force: true }) };
+}
+
+/** The compiled command line, as a user runs it (tests that need worker threads spawn it). */
+export const binPath = path.join(repoRoot, 'bin', 'faultsheet.js');
+
+/** A temporary folder holding a copy of a demo project as `p` (without its out/ folder). */
+export async function demoCopy(name: string): Promise<{ dir: string; remove: () => Promise<void> }> {
+  const tmp = await tempDir();
+  cpSync(demoDir(name), path.join(tmp.dir, 'p'), { recursive: true, filter: (src) => !src.includes(`${path.sep}out`) });
+  return tmp;
+}
+
+/** The files a build wrote into `dir` (not the cache folder), by name, as base64: to compare two builds. */
+export function builtFiles(dir: string): Record<string, string> {
+  return Object.fromEntries(
+    readdirSync(dir)
+      .filter((f) => f !== '.faultsheet-cache')
+      .sort()
+      .map((f) => [f, readFileSync(path.join(dir, f)).toString('base64')]),
+  );
 }
 
 /** True where text looks like a JavaScript stack trace. */
