@@ -114,7 +114,8 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     };
     let summary: LaidOutSummary | null = null;
     const made = new Map<string, SummaryPart>(); // summary parts laid out by this build
-    let renderer: Renderer | undefined;
+    let renderer: Renderer | undefined; // loaded once the sheets are under way
+    const summaryCtx = (sheetPages: number[], stopOn?: AbortSignal) => ({ templates, renderer: renderer!, projectPrint, previous, outDir: staging.outDir, made, pages: sheetPages, signal: stopOn });
     const threads = opts.renderer || toRender.length === 0 ? 0 : opts.pool ? opts.pool.maxThreads : workerCount(toRender.length, opts.jobs);
     if (threads === 0) stopping = opts.pool?.destroy(); // not needed: nothing to render, or rendering here
     const pool = threads > 0 ? (opts.pool ?? (await startSheetPool(threads))) : null;
@@ -140,10 +141,9 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       clock(`plan and cache (${toRender.length} to render, ${total - toRender.length} kept)`);
       const { defaultRenderer } = await import('./render.js'); // pdfmake and Chart.js: loaded while the workers render
       renderer = opts.renderer ?? defaultRenderer();
-      const summaryCtx = { templates, renderer, projectPrint, previous, outDir: staging.outDir, made };
       if (rendering) {
         const guess = previous && toRender.every((i) => (previous.sheets[plan.sheets[i].file]?.pages ?? 0) >= 1) ? Array.from(pages, (p, i) => p ?? previous.sheets[plan.sheets[i].file].pages) : null;
-        const early = guess && !first ? await layOutSummary(project, result, { ...summaryCtx, pages: guess, signal: local.signal }).catch(fail) : null;
+        const early = guess && !first ? await layOutSummary(project, result, summaryCtx(guess, local.signal)).catch(fail) : null;
         await rendering;
         if (early && guess!.every((p, i) => p === pages[i])) summary = early;
       } else
@@ -170,7 +170,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     // The summary, laid out part by part (summary.ts summaryParts), each part cached like a sheet,
     // then joined into summary.pdf.
     const labels = templates.labels('summary/labels.hbs');
-    summary ??= await layOutSummary(project, result, { templates, renderer: renderer!, projectPrint, previous, outDir: staging.outDir, made, pages, signal });
+    summary ??= await layOutSummary(project, result, summaryCtx(pages, signal));
     for (const part of summary.parts)
       if (part.bytes) await staging.write(`${CACHE_DIR}/${part.file}`, part.bytes);
       else await staging.adopt(`${CACHE_DIR}/${part.file}`, path.join(staging.outDir, CACHE_DIR, part.file));
