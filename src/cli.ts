@@ -4,15 +4,19 @@
 import path from 'node:path';
 import { Command, CommanderError } from 'commander';
 import cliProgress from 'cli-progress';
-import { loadProject } from './model/load.js';
 import { formatIssues, type Issue } from './model/issues.js';
-import { solveProject } from './calc/solve.js';
-import { resultsDocument } from './calc/results-json.js';
 import type { Project } from './model/types.js';
 import type { CheckResult, CircuitResult, ProjectResult, Status } from './calc/types.js';
-import { initProject, InitError } from './init.js';
 import { demoProjectDirs, packageVersion } from './demo.js';
 import type { SheetPool } from './report/pool.js';
+
+// The engine (the loader with its units and schemas, the solver) and the report are imported by
+// the commands that use them: `build` starts its worker threads first, so they load the report on
+// another core while this thread loads the engine (about half a second each).
+const engine = async () => {
+  const [{ loadProject }, { solveProject }, { resultsDocument }] = await Promise.all([import('./model/load.js'), import('./calc/solve.js'), import('./calc/results-json.js')]);
+  return { loadProject, solveProject, resultsDocument };
+};
 
 export interface CliIo {
   argv: string[]; // arguments after the program name
@@ -106,6 +110,7 @@ Run 'faultsheet <command> --help' for a command's options.`,
     .option('--json', 'print only the results JSON document on stdout (the same as results.json)')
     .option('--strict', 'exit 2 if any check fails or is undetermined')
     .action(async (dir: string, opts: { json?: boolean; strict?: boolean }) => {
+      const { solveProject, resultsDocument } = await engine();
       const project = await load(io, dir);
       const result = solveProject(project);
       if (opts.json) out(`${JSON.stringify(resultsDocument(project, result), null, 2)}\n`);
@@ -139,7 +144,10 @@ Run 'faultsheet <command> --help' for a command's options.`,
   command('init <dir>', 'create a new project folder that builds as it is', 'faultsheet init substation-b').action(
     async (dir: string) => {
       const target = path.resolve(io.cwd, dir);
-      const written = await initProject(target);
+      const { initProject, InitError } = await import('./init.js');
+      const written = await initProject(target).catch((e: unknown) => {
+        throw e instanceof InitError ? new UserError(e.message) : e;
+      });
       out(`created ${display(io, target)}: ${written.join(', ')}\n`);
       const shown = display(io, target);
       out(`next: edit the YAML files there, then \`npx faultsheet check ${shown}\` and \`npx faultsheet build ${shown}\` (the sheets go to ${shown}/out)\n`);
@@ -176,7 +184,7 @@ Run 'faultsheet <command> --help' for a command's options.`,
       err(e.message.endsWith('\n') ? e.message : `${e.message}\n`);
       return EXIT.input;
     }
-    if (e instanceof UserError || e instanceof InitError) {
+    if (e instanceof UserError) {
       err(e.message.split('\n').map((line) => `error: ${line}\n`).join(''));
       return EXIT.input;
     }
@@ -188,7 +196,7 @@ Run 'faultsheet <command> --help' for a command's options.`,
 
 async function load(io: CliIo, dir: string): Promise<Project> {
   const projectDir = path.resolve(io.cwd, dir);
-  const loaded = await loadProject(projectDir);
+  const loaded = await (await engine()).loadProject(projectDir);
   // locations as the user can open them from where they are: the project folder, then the file
   const located = (issues: readonly Issue[]) =>
     formatIssues(issues.map((i) => ({ ...i, file: path.join(display(io, projectDir), i.file).split(path.sep).join('/') })));
@@ -218,6 +226,7 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
 }
 
 async function solveAndBuild(io: CliIo, projectDir: string, outDir: string, opts: { quiet: boolean; force?: boolean; jobs?: number }, started: number, pool: SheetPool | undefined): Promise<Built> {
+  const { solveProject, resultsDocument } = await engine();
   const project = await load(io, projectDir);
   const result = solveProject(project);
   io.signal?.throwIfAborted();
