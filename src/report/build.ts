@@ -4,6 +4,7 @@
 // place (src/io/write.ts). Any failure or interruption before the swap leaves OUT exactly as it was.
 
 import path from 'node:path';
+import type { Content } from 'pdfmake/interfaces.js';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { openStaging } from '../io/write.js';
@@ -114,15 +115,22 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     };
     let summary: LaidOutSummary | null = null;
     const made = new Map<string, SummaryPart>(); // summary parts laid out by this build
-    let renderer: Renderer | undefined; // loaded once the sheets are under way
-    const summaryCtx = (sheetPages: number[], stopOn?: AbortSignal) => ({ templates, renderer: renderer!, projectPrint, previous, outDir: staging.outDir, made, pages: sheetPages, signal: stopOn });
+    let renderer: Renderer | undefined = opts.renderer; // pdfmake and Chart.js in this thread, loaded when first needed
+    const ownRenderer = async (): Promise<Renderer> => (renderer ??= (await import('./render.js')).defaultRenderer());
     const threads = opts.renderer || toRender.length === 0 ? 0 : opts.pool ? opts.pool.maxThreads : workerCount(toRender.length, opts.jobs);
     if (threads === 0) stopping = opts.pool?.destroy(); // not needed: nothing to render, or rendering here
     const pool = threads > 0 ? (opts.pool ?? (await startSheetPool(threads))) : null;
+    // After a sheet or two the worker that rendered them, its code warm, lays out the summary's
+    // changed parts as well (this thread then never loads the layout code); after a batch the
+    // workers are stopped and the parts are laid out here.
+    const partsOnPool = pool !== null && toRender.length < POOL_FROM;
+    const layOutPart = async (content: Content[], pageNumbers: { offset: number; total: number }, stopOn?: AbortSignal): Promise<Buffer> =>
+      partsOnPool ? pool.layOut({ content, circuits: total, ...pageNumbers }, stopOn) : (await ownRenderer()).pdf(summaryPartDocument(project, total, templates, content, pageNumbers));
+    const summaryCtx = (sheetPages: number[], stopOn?: AbortSignal) => ({ templates, layOut: layOutPart, projectPrint, previous, outDir: staging.outDir, made, pages: sheetPages, signal: stopOn });
     // The sheets start rendering on the workers now; meanwhile this thread takes the kept sheets
-    // over, loads the layout code and, when the last build says how many pages each sheet to render
-    // had (an edit seldom changes that), lays out the summary with those counts (again below, with
-    // the counts the sheets have, if one changed).
+    // over and, when the last build says how many pages each sheet to render had (an edit seldom
+    // changes that), lays out the summary with those counts (again below, with the counts the
+    // sheets have, if one changed).
     const local = new AbortController(); // the first failure, or an interruption, stops both
     const stop = (): void => local.abort(signal?.reason);
     signal?.addEventListener('abort', stop, { once: true });
@@ -139,8 +147,6 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         await staging.adopt(plan.sheets[i].file, path.join(staging.outDir, plan.sheets[i].file));
       }
       clock(`plan and cache (${toRender.length} to render, ${total - toRender.length} kept)`);
-      const { defaultRenderer } = await import('./render.js'); // pdfmake and Chart.js: loaded while the workers render
-      renderer = opts.renderer ?? defaultRenderer();
       if (rendering) {
         const guess = previous && toRender.every((i) => (previous.sheets[plan.sheets[i].file]?.pages ?? 0) >= 1) ? Array.from(pages, (p, i) => p ?? previous.sheets[plan.sheets[i].file].pages) : null;
         const early = guess && !first ? await layOutSummary(project, result, summaryCtx(guess, local.signal)).catch(fail) : null;
@@ -148,7 +154,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         if (early && guess!.every((p, i) => p === pages[i])) summary = early;
       } else
         for (const i of toRender) {
-          const bytes = await renderSheet(project, result, i, templates, renderer);
+          const bytes = await renderSheet(project, result, i, templates, await ownRenderer());
           await accept(i, bytes, pdfPageCount(bytes));
         }
       if (first) throw (first as { err: unknown }).err;
@@ -265,7 +271,16 @@ interface SummaryPart {
 async function layOutSummary(
   project: Project,
   result: ProjectResult,
-  ctx: { templates: TemplateSet; renderer: Renderer; projectPrint: string; pages: number[]; previous: Manifest | null; outDir: string; signal?: AbortSignal; made: Map<string, SummaryPart> },
+  ctx: {
+    templates: TemplateSet;
+    layOut: (content: Content[], pageNumbers: { offset: number; total: number }, signal?: AbortSignal) => Promise<Buffer>;
+    projectPrint: string;
+    pages: number[];
+    previous: Manifest | null;
+    outDir: string;
+    signal?: AbortSignal;
+    made: Map<string, SummaryPart>;
+  },
 ): Promise<LaidOutSummary> {
   const made = ctx.made; // parts laid out by this build, by key (shared by the layouts of one build)
   const header = stableJson({ meta: project.meta, signoff: project.signoff, circuits: result.circuits.length });
@@ -287,7 +302,7 @@ async function layOutSummary(
       const key = createHash('sha256').update(ctx.projectPrint).update(header).update(`${offset}/${total}\n`).update(stableJson(content)).digest('hex');
       let part: SummaryPart | undefined = made.get(key) ?? cachedSummaryPart(ctx.outDir, ctx.previous, key);
       if (!part) {
-        const bytes = await ctx.renderer.pdf(summaryPartDocument(project, result, opts, content, { offset, total }));
+        const bytes = await ctx.layOut(content, { offset, total }, ctx.signal);
         part = { key, pages: pdfPageCount(bytes), file: `summary-${key.slice(0, 16)}.pdf`, bytes };
       }
       made.set(key, part);

@@ -1,7 +1,7 @@
 // Building blocks shared by the sheet and the summary layouts: styles, template blocks to pdfmake
 // content, tables, status cells, the title block, sign-off blocks. Pure: no I/O, no clock.
 
-import type { Content, ContentTable, StyleDictionary, TableCell, TableLayout, TDocumentDefinitions } from 'pdfmake/interfaces.js';
+import type { Content, ContentTable, StyleDictionary, CustomTableLayout, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces.js';
 import type { Person, Project } from '../model/types.js';
 import type { Status } from '../calc/types.js';
 import type { Block, Rendered } from './templates.js';
@@ -50,7 +50,23 @@ export function ruledLayout(lineWidth: number, colour: string, paddingY: number)
   };
 }
 
-export const gridLayout: TableLayout = ruledLayout(0.4, COLOURS.rule, 1.6);
+export const gridLayout: CustomTableLayout = ruledLayout(0.4, COLOURS.rule, 1.6);
+
+/**
+ * Table layouts that content names instead of holding (`layout: 'grid'`), given to every document
+ * (render.ts): content built from them is plain data, which a summary part needs to be laid out in
+ * a worker thread (functions do not cross a thread boundary).
+ */
+export const TABLE_LAYOUTS: Record<'grid' | 'note', CustomTableLayout> = {
+  grid: gridLayout,
+  note: {
+    hLineWidth: () => 0.6,
+    vLineWidth: (i: number) => (i === 0 ? 2 : 0),
+    hLineColor: () => '#d6c59a',
+    vLineColor: () => '#b08a2e',
+    fillColor: () => COLOURS.noteFill,
+  },
+};
 
 /** Markup text to a pdfmake text value. */
 export function t(markup: string, literals: readonly string[] = []): Run[] {
@@ -166,13 +182,7 @@ export function breakable<T extends Content>(c: T): T {
 export function note(text: Run[] | string): Content {
   return {
     table: { widths: ['*'], body: [[{ text, fontSize: 7.6, margin: [3, 2, 3, 2] }]] },
-    layout: {
-      hLineWidth: () => 0.6,
-      vLineWidth: (i: number) => (i === 0 ? 2 : 0),
-      hLineColor: () => '#d6c59a',
-      vLineColor: () => '#b08a2e',
-      fillColor: () => COLOURS.noteFill,
-    },
+    layout: 'note',
     margin: [0, 2, 0, 5],
   };
 }
@@ -196,7 +206,7 @@ export function dataTable(
       keepWithHeaderRows: 1,
       body: [header.map((h, i) => cell(h, i, true)), ...rows.map((r) => r.map((c, i) => cell(c, i, false)))],
     },
-    layout: gridLayout,
+    layout: 'grid',
     margin: [0, 1, 0, 6],
   };
   return rows.length > 14 ? breakable(table) : table;
@@ -300,7 +310,7 @@ export function signoffBlocks(
   });
   return {
     table: { widths: ['*', '*', '*'], body: [people.map((p) => block(p.word, p.person))] },
-    layout: gridLayout,
+    layout: 'grid',
     unbreakable: true,
     margin: [0, 2, 0, 6],
   };

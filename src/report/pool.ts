@@ -15,7 +15,7 @@ import { serialize } from 'node:v8';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { TemplateError, type TemplateSet } from './templates.js';
-import type { PoolData, SheetDone, SheetTask } from './sheet-worker.js';
+import type { PartDone, PoolData, SheetDone, SheetTask, SummaryPartTask } from './sheet-worker.js';
 
 /** Without a pool started early, fewer sheets than this render in the main thread (a worker's start-up costs about half a second). */
 export const POOL_FROM = 6;
@@ -47,7 +47,7 @@ export function earlyThreads(jobs?: number): number {
   return cores < 2 ? 0 : cores;
 }
 
-type Answer = SheetDone | { templateError: { file: string; detail: string } };
+type Answer = SheetDone | { templateError: { file: string; detail: string } } | PartDone | null;
 
 export interface SheetPool {
   readonly maxThreads: number;
@@ -57,7 +57,35 @@ export interface SheetPool {
    * aborts), after the tasks still running have stopped.
    */
   render(project: Project, result: ProjectResult, indices: number[], templates: TemplateSet, onSheet: (done: SheetDone) => Promise<void>, signal?: AbortSignal): Promise<void>;
+  /**
+   * Lay out one part of the summary (summary.ts summaryPartDocument) on a worker, after the sheets
+   * `render` has handed out so far and on one of its lanes (no worker is started for it). Only
+   * while a `render` of the same build has not returned; its project and templates are used.
+   */
+  layOut(part: SummaryPartTask['part'], signal?: AbortSignal): Promise<Buffer>;
   destroy(): Promise<void>;
+}
+
+/**
+ * At most `width` tasks at a time, handed out in the order asked for: the sheets' lanes and the
+ * summary parts share it, so a part waits for a lane instead of making the pool start a worker.
+ */
+class Gate {
+  width = 1;
+  private busy = 0;
+  private readonly waiting: Array<() => void> = [];
+
+  async run<T>(task: () => Promise<T>): Promise<T> {
+    if (this.busy >= this.width) await new Promise<void>((go) => this.waiting.push(go));
+    else this.busy++;
+    try {
+      return await task();
+    } finally {
+      const next = this.waiting.shift();
+      if (next) next(); // the slot passes on
+      else this.busy--;
+    }
+  }
 }
 
 let generation = 0;
@@ -72,7 +100,7 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
   // Loading it here, in the main thread, before any worker, keeps it in memory until the process ends.
   await import('canvas');
   const { Piscina } = await import('piscina');
-  const pool = new Piscina<SheetTask, Answer>({
+  const pool = new Piscina<SheetTask | SummaryPartTask, Answer>({
     filename: pathToFileURL(workerScript).href,
     minThreads: 1,
     maxThreads,
@@ -81,8 +109,21 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
     resourceLimits: { maxYoungGenerationSizeMb: 96 },
   });
   let destroyed: Promise<void> | null = null;
+  const gate = new Gate();
+  let current: SheetTask['data'] | null = null; // the project of the render under way, for layOut
   return {
     maxThreads,
+    async layOut(part, signal) {
+      if (!current) throw new Error('internal error: a summary part was sent to the pool outside a render');
+      const data = current;
+      const done = await gate.run(() => {
+        signal?.throwIfAborted(); // a build that stopped while this part waited for a lane
+        return pool.run({ part, data });
+      });
+      if (done === null || !('part' in done)) throw new Error('internal error: a summary part came back as something else');
+      if ('templateError' in done.part) throw new TemplateError(done.part.templateError.file, done.part.templateError.detail);
+      return Buffer.from(done.part.bytes.buffer, done.part.bytes.byteOffset, done.part.bytes.byteLength);
+    },
     async render(project, result, indices, templates, onSheet, signal) {
       const files = templates.files();
       // a sheet shows its own circuit and device only: the rest of the project travels once, and each
@@ -95,6 +136,7 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
       const shared = new SharedArrayBuffer(bytes.length);
       new Uint8Array(shared).set(bytes);
       const data = { generation: ++generation, buffer: shared };
+      current = data;
       const circuitOf = new Map(project.circuits.map((c) => [c.id, c]));
       const deviceOf = new Map(project.devices.map((d) => [d.id, d]));
       // Each of maxThreads lanes hands its worker the next sheet as soon as the last is back. A
@@ -115,14 +157,16 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
           // The solver samples chart series on first use (a non-enumerable getter, which a structured
           // clone would drop): take them now so the worker gets plain data.
           const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device: deviceOf.get(cr.device), data };
-          const done = await pool.run(task);
+          const done = await gate.run(() => pool.run(task));
+          if (done === null || 'part' in done) throw new Error('internal error: a sheet came back as something else');
           if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
           if (stopped()) return;
           // the sheets are taken one at a time, in completion order, while the worker goes on
           chain = chain.then(() => (stopped() ? undefined : onSheet(done))).catch((err: unknown) => void (first ??= { err }));
         }
       };
-      const lanes = Array.from({ length: Math.min(maxThreads, indices.length) }, () => lane().catch((err: unknown) => void (first ??= { err })));
+      gate.width = Math.max(1, Math.min(maxThreads, indices.length));
+      const lanes = Array.from({ length: gate.width }, () => lane().catch((err: unknown) => void (first ??= { err })));
       await Promise.all(lanes);
       await chain;
       if (signal?.aborted) throw signal.reason ?? new Error('aborted');

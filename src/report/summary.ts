@@ -168,20 +168,20 @@ export function summaryParts(project: Project, result: ProjectResult, opts: Summ
 }
 
 /** One part of the summary as a document, its pages numbered from offset + 1 out of total. */
-export function summaryPartDocument(project: Project, result: ProjectResult, opts: SummaryOptions, content: Content[], pageNumbers: { offset: number; total: number }): TDocumentDefinitions {
-  return summaryFrame(project, result, opts, content, pageNumbers);
+export function summaryPartDocument(project: Project, circuits: number, templates: TemplateSet, content: Content[], pageNumbers: { offset: number; total: number }): TDocumentDefinitions {
+  return summaryFrame(project, circuits, templates, content, pageNumbers);
 }
 
 /** The whole summary as one document definition (the parts one after the other). */
 export function summaryDocument(project: Project, result: ProjectResult, opts: SummaryOptions): TDocumentDefinitions {
   const parts = summaryParts(project, result, opts);
   const content = parts.flatMap((p, i) => (i === 0 ? p : [{ text: '', pageBreak: 'before' } as Content, ...p]));
-  return summaryFrame(project, result, opts, content);
+  return summaryFrame(project, result.circuits.length, opts.templates, content);
 }
 
-function summaryFrame(project: Project, result: ProjectResult, opts: SummaryOptions, content: Content[], pageNumbers?: { offset: number; total: number }): TDocumentDefinitions {
-  const labels = opts.templates.labels('summary/labels.hbs');
-  const sheetLabels = opts.templates.labels('sheet/labels.hbs');
+function summaryFrame(project: Project, circuits: number, templates: TemplateSet, content: Content[], pageNumbers?: { offset: number; total: number }): TDocumentDefinitions {
+  const labels = templates.labels('summary/labels.hbs');
+  const sheetLabels = templates.labels('sheet/labels.hbs');
   return packageDocument(
     project,
     sheetLabels,
@@ -191,7 +191,7 @@ function summaryFrame(project: Project, result: ProjectResult, opts: SummaryOpti
       subjectLabel: labels['documentLabel']!,
       subjectText: labels['document']!,
       partLabel: labels['circuitsLabel']!,
-      part: String(result.circuits.length),
+      part: String(circuits),
       footerName: labels['document']!,
       // the title block of every page would otherwise change with every edit to any file: the
       // project's input hash is printed in full on the cover
