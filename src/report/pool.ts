@@ -5,8 +5,8 @@
 // thread renders it or in which order, so the output stays byte-identical to a serial build.
 //
 // The command line starts the pool before it reads the project (startSheetPool): a worker loads
-// pdfmake, Chart.js, canvas and the fonts on another core while the main thread loads and solves,
-// and a one-edit rebuild then renders its sheet there while the main thread lays out the summary.
+// pdfmake, Chart.js, canvas and the fonts on another core while the main thread loads and solves;
+// a one-edit rebuild then renders its sheet there, and the summary parts that changed after it.
 
 import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
@@ -15,7 +15,7 @@ import { serialize } from 'node:v8';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { TemplateError, type TemplateSet } from './templates.js';
-import type { PartDone, PoolData, SheetDone, SheetTask, SummaryPartTask } from './sheet-worker.js';
+import type { PartDone, PoolData, SheetDone, SheetTask, SummaryPartTask, TemplateFailure } from './sheet-worker.js';
 
 /** Without a pool started early, fewer sheets than this render in the main thread (a worker's start-up costs about half a second). */
 export const POOL_FROM = 6;
@@ -47,7 +47,14 @@ export function earlyThreads(jobs?: number): number {
   return cores < 2 ? 0 : cores;
 }
 
-type Answer = SheetDone | { templateError: { file: string; detail: string } } | PartDone | null;
+type Answer = SheetDone | PartDone | TemplateFailure;
+
+/** A worker's answer, or the template error it reported, thrown again in this thread. */
+function answer<T extends SheetDone | PartDone>(done: Answer, kind: 'part' | 'sheet'): T {
+  if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
+  if ('part' in done !== (kind === 'part')) throw new Error(`internal error: a ${kind} task came back as something else`);
+  return done as T;
+}
 
 export interface SheetPool {
   readonly maxThreads: number;
@@ -120,9 +127,8 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
         signal?.throwIfAborted(); // a build that stopped while this part waited for a lane
         return pool.run({ part, data });
       });
-      if (done === null || !('part' in done)) throw new Error('internal error: a summary part came back as something else');
-      if ('templateError' in done.part) throw new TemplateError(done.part.templateError.file, done.part.templateError.detail);
-      return Buffer.from(done.part.bytes.buffer, done.part.bytes.byteOffset, done.part.bytes.byteLength);
+      const bytes = answer<PartDone>(done, 'part').part;
+      return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     },
     async render(project, result, indices, templates, onSheet, signal) {
       const files = templates.files();
@@ -157,9 +163,7 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
           // The solver samples chart series on first use (a non-enumerable getter, which a structured
           // clone would drop): take them now so the worker gets plain data.
           const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device: deviceOf.get(cr.device), data };
-          const done = await gate.run(() => pool.run(task));
-          if (done === null || 'part' in done) throw new Error('internal error: a sheet came back as something else');
-          if ('templateError' in done) throw new TemplateError(done.templateError.file, done.templateError.detail);
+          const done = answer<SheetDone>(await gate.run(() => pool.run(task)), 'sheet');
           if (stopped()) return;
           // the sheets are taken one at a time, in completion order, while the worker goes on
           chain = chain.then(() => (stopped() ? undefined : onSheet(done))).catch((err: unknown) => void (first ??= { err }));

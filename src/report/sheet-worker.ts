@@ -41,7 +41,12 @@ export interface SummaryPartTask {
 }
 
 export interface PartDone {
-  part: { bytes: Uint8Array } | { templateError: { file: string; detail: string } };
+  part: Uint8Array;
+}
+
+/** A user error keeps its meaning across the thread boundary (the CLI prints it without a stack). */
+export interface TemplateFailure {
+  templateError: { file: string; detail: string };
 }
 
 const renderer = defaultRenderer(); // the fonts are read now, while the main thread loads the project
@@ -55,29 +60,26 @@ function build(data: SheetTask['data']): { project: Project; templates: Template
   return current;
 }
 
-export default async function renderTask(task: SheetTask | SummaryPartTask): Promise<SheetDone | PartDone | { templateError: { file: string; detail: string } }> {
-  if ('part' in task) return layOutPart(task);
+export default async function renderTask(task: SheetTask | SummaryPartTask): Promise<SheetDone | PartDone | TemplateFailure> {
   try {
-    const { project: rest, templates } = build(task.data);
-    const project: Project = { ...rest, circuits: [task.input], devices: task.device ? [task.device] : [] };
-    const bytes = await renderCircuitSheet(project, task.circuit, task.index, task.count, templates, renderer);
-    const out = new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-    return { index: task.index, bytes: out, pages: pdfPageCount(out) }; // copied across (a sheet is a few hundred kB)
+    return 'part' in task ? await layOutPart(task) : await renderSheetTask(task);
   } catch (err) {
-    // a user error keeps its meaning across the thread boundary (the CLI prints it without a stack)
     if (err instanceof TemplateError) return { templateError: { file: err.file, detail: err.detail } };
     throw err;
   }
 }
 
+async function renderSheetTask(task: SheetTask): Promise<SheetDone> {
+  const { project: rest, templates } = build(task.data);
+  const project: Project = { ...rest, circuits: [task.input], devices: task.device ? [task.device] : [] };
+  const bytes = await renderCircuitSheet(project, task.circuit, task.index, task.count, templates, renderer);
+  const out = new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  return { index: task.index, bytes: out, pages: pdfPageCount(out) }; // copied across (a sheet is a few hundred kB)
+}
+
 async function layOutPart(task: SummaryPartTask): Promise<PartDone> {
-  try {
-    const { project, templates } = build(task.data);
-    const { content, circuits, offset, total } = task.part;
-    const bytes = await renderer.pdf(summaryPartDocument(project, circuits, templates, content, { offset, total }));
-    return { part: { bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) } };
-  } catch (err) {
-    if (err instanceof TemplateError) return { part: { templateError: { file: err.file, detail: err.detail } } };
-    throw err;
-  }
+  const { project, templates } = build(task.data);
+  const { content, circuits, offset, total } = task.part;
+  const bytes = await renderer.pdf(summaryPartDocument(project, circuits, templates, content, { offset, total }));
+  return { part: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) };
 }
