@@ -27,6 +27,7 @@ import {
 import { parseYamlFile, sourcePos, type PathSegment, type SourceFile } from './source.js';
 import { checkProjectRefs, refAt, type CircuitRefs, type DeviceRefs, type ProjectRefs, type SupplyRefs, type UnreadParts } from './topology.js';
 import type { AppliedDefault, Circuit, Device, Project, ProjectMeta, Settings, Signoff, Supply } from './types.js';
+import { loadUnitLibrary, UnitLibraryNeeded } from './units.js';
 import { describeValue, locationOf, validatePart } from './validate.js';
 
 export type LoadOutcome =
@@ -34,7 +35,15 @@ export type LoadOutcome =
   | { ok: false; issues: Issue[] }; // errors and warnings, sorted by file, line, column
 
 export async function loadProject(dir: string): Promise<LoadOutcome> {
-  return buildProject(await readProjectFolder(dir));
+  const folder = await readProjectFolder(dir);
+  try {
+    return buildProject(folder);
+  } catch (error) {
+    // A unit our own reader does not know: load mathjs's units and read the project again.
+    if (!(error instanceof UnitLibraryNeeded)) throw error;
+    await loadUnitLibrary();
+    return buildProject(folder);
+  }
 }
 
 /** sha256 over the files sorted by relative path, each as path + NUL + content + NUL. */
@@ -197,7 +206,8 @@ function collectCircuits(file: SourceFile, refs: ProjectRefs, pending: PendingCi
 
 const byId = <T extends { id: string }>(a: T, b: T): number => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0);
 
-/** Pure: from the files read to the outcome. */
+/** Pure: from the files read to the outcome. Throws UnitLibraryNeeded where a unit needs mathjs and it is
+ * not loaded (loadProject loads it and calls again). */
 export function buildProject(folder: ProjectFolder): LoadOutcome {
   const issues: Issue[] = folder.problems.map(readProblemIssue);
   const sources: SourceFile[] = [];

@@ -6,6 +6,7 @@ import path from 'node:path';
 import { readProjectFolder, type InputFile, type ProjectFolder } from '../../src/io/read.js';
 import { formatIssue, type Issue } from '../../src/model/issues.js';
 import { buildProject } from '../../src/model/load.js';
+import { loadUnitLibrary } from '../../src/model/units.js';
 import { solveProject } from '../../src/calc/solve.js';
 import { resultsDocument } from '../../src/calc/results-json.js';
 
@@ -13,6 +14,10 @@ export interface TextFile {
   path: string;
   text: string;
 }
+
+// loadProject loads mathjs's units the first time a project writes a unit our own reader does not
+// know, and reads the project again; buildProject is synchronous, so the pipeline here has them loaded.
+await loadUnitLibrary();
 
 const decoder = new TextDecoder();
 const encoder = new TextEncoder();

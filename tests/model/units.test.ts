@@ -1,8 +1,14 @@
 // Unit parsing at the edge: dimensional text to SI numbers, and clear refusals.
 
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
+  DIMENSIONS,
   isMultipleOfRatingUnit,
+  libraryReading,
+  loadUnitLibrary,
+  ownReading,
+  ownUnitNames,
   normaliseUnitText,
   parseMultipleOfRating,
   parsePercent,
@@ -10,6 +16,11 @@ import {
   parseUnitFactor,
   type Dimension,
 } from '../../src/model/units.js';
+
+// Units beyond our own reader's go to mathjs, as they do once the loader has loaded it (load.ts).
+await loadUnitLibrary();
+
+const ALL_DIMENSIONS = Object.keys(DIMENSIONS) as Dimension[];
 
 function si(text: string, dimension: Dimension): number {
   const parsed = parseQuantity(text, dimension);
@@ -110,5 +121,72 @@ describe('multiples of the rating and curve units', () => {
     expect(parseUnitFactor('kA^2 s', 'joule-integral')).toEqual({ ok: true, value: 1e6 });
     expect(parseUnitFactor('A2s', 'joule-integral')).toEqual({ ok: true, value: 1 });
     expect(parseUnitFactor('V', 'current')).toMatchObject({ ok: false, problem: 'wrong-dimension' });
+  });
+});
+
+// FORMAT.md: dimensional values are read with mathjs's units. Our own reader stands in for mathjs on the
+// units projects nearly always write, and must give mathjs's numbers exactly, not only to 12 figures.
+describe('our own unit reader against mathjs', () => {
+  const magnitudes = [1, 45, 0.07, 1.5e5, 123.456789, 3e-7, 0.1 + 0.2]; // common practice, no source
+
+  it('reads every unit name it knows as mathjs does, in every dimension, bit for bit', () => {
+    const names = ownUnitNames();
+    expect(names.length).toBeGreaterThan(150); // 8 prefixed units x 21 spellings and 5 plain ones
+    for (const name of names) {
+      for (const dimension of ALL_DIMENSIONS) {
+        for (const magnitude of magnitudes) {
+          expect(ownReading(name, dimension, magnitude), `${magnitude} ${name} as ${dimension}`).toBe(libraryReading(name, dimension, magnitude));
+        }
+      }
+    }
+  });
+
+  it.each([
+    ['A^2 s', 'joule-integral'],
+    ['kA^2 s', 'joule-integral'],
+    ['A2s', 'joule-integral'],
+    ['kA²·s', 'joule-integral'],
+    ['A^2*s', 'joule-integral'],
+    ['ohm/km', 'impedance-per-length'],
+    ['mohm/m', 'impedance-per-length'],
+    ['Ω/km', 'impedance-per-length'],
+    ['ohm / km', 'impedance-per-length'],
+    ['uohm/m', 'impedance-per-length'],
+    ['mm2', 'area'],
+    ['cm^2', 'area'],
+    ['ft^2', 'area'],
+    ['V A', 'apparent-power'],
+    ['V/m s', 'voltage'], // "/" takes only the next unit: V m^-1 s, not a voltage
+    ['kV/kA', 'impedance'],
+    ['s/h', 'time'],
+  ] as const)('reads %s as mathjs does (%s)', (text, dimension) => {
+    expect(ownReading(text, 'length', 1)).toBe(libraryReading(text, 'length', 1));
+    for (const magnitude of magnitudes) expect(ownReading(text, dimension, magnitude)).toBe(libraryReading(text, dimension, magnitude));
+  });
+
+  it('reads the spellings that name a quantity (not "V/m s") in their dimension', () => {
+    expect(ownReading('kA^2 s', 'joule-integral', 2)).toBe(2e6);
+    expect(ownReading('ohm/km', 'impedance-per-length', 0.08)).toBeCloseTo(0.08e-3, 18);
+    expect(ownReading('V/m s', 'voltage', 1)).toBeUndefined();
+  });
+
+  it('leaves to mathjs what it does not read: other units, offsets in products, powers beyond 9, parentheses', () => {
+    for (const text of ['degF', 'K', 'yd', 'mi', 'kiloohm', 'degC^2', 'degC m', 'm^10', 'm^0.5', 'm^-1', '(m)', 'kg', 'mm2/'])
+      expect(ownReading(text, 'length', 1), text).toBeUndefined();
+  });
+
+  it('agrees with mathjs on random products and quotients of the units it knows', () => {
+    const names = ownUnitNames();
+    const term = fc.tuple(fc.constantFrom(...names), fc.constantFrom('', '^2', '^3', '2', ' ^ 2'));
+    const text = fc
+      .tuple(term, fc.array(fc.tuple(fc.constantFrom(' ', '*', '/', ' / ', '·'), term), { maxLength: 3 }))
+      .map(([first, rest]) => first.join('') + rest.map(([op, t]) => op + t.join('')).join(''));
+    fc.assert(
+      fc.property(text, fc.constantFrom(...ALL_DIMENSIONS), fc.double({ min: -1e6, max: 1e6, noNaN: true }), (unit, dimension, magnitude) => {
+        const ours = ownReading(unit, dimension, magnitude);
+        if (ours !== undefined) expect(ours).toBe(libraryReading(unit, dimension, magnitude));
+      }),
+      { seed: 20261202, numRuns: 3000 },
+    );
   });
 });
