@@ -8,14 +8,21 @@ import { formatIssues, type Issue } from './model/issues.js';
 import type { Project } from './model/types.js';
 import type { CheckResult, CircuitResult, ProjectResult, Status } from './calc/types.js';
 import { demoProjectDirs, packageVersion } from './demo.js';
+import type { ParseCache } from './model/parse-cache.js';
 import type { SheetPool } from './report/pool.js';
+import { CACHE_FOLDER } from './io/write.js';
 
 // The engine (the loader with its units and schemas, the solver) and the report are imported by
 // the commands that use them: `build` starts its worker threads first, so they load the report on
 // another core while this thread loads the engine (about half a second each).
 const engine = async () => {
-  const [{ loadProject }, { solveProject }, { resultsDocument }] = await Promise.all([import('./model/load.js'), import('./calc/solve.js'), import('./calc/results-json.js')]);
-  return { loadProject, solveProject, resultsDocument };
+  const [{ loadProject }, { ParseCache, PARSE_CACHE_FILE }, { solveProject }, { resultsDocument }] = await Promise.all([
+    import('./model/load.js'),
+    import('./model/parse-cache.js'),
+    import('./calc/solve.js'),
+    import('./calc/results-json.js'),
+  ]);
+  return { loadProject, ParseCache, PARSE_CACHE_FILE, solveProject, resultsDocument };
 };
 
 export interface CliIo {
@@ -194,9 +201,9 @@ Run 'faultsheet <command> --help' for a command's options.`,
   }
 }
 
-async function load(io: CliIo, dir: string): Promise<Project> {
+async function load(io: CliIo, dir: string, cache?: ParseCache): Promise<Project> {
   const projectDir = path.resolve(io.cwd, dir);
-  const loaded = await (await engine()).loadProject(projectDir);
+  const loaded = await (await engine()).loadProject(projectDir, cache);
   // locations as the user can open them from where they are: the project folder, then the file
   const located = (issues: readonly Issue[]) =>
     formatIssues(issues.map((i) => ({ ...i, file: path.join(display(io, projectDir), i.file).split(path.sep).join('/') })));
@@ -226,8 +233,10 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
 }
 
 async function solveAndBuild(io: CliIo, projectDir: string, outDir: string, opts: { quiet: boolean; force?: boolean; jobs?: number }, started: number, pool: SheetPool | undefined): Promise<Built> {
-  const { solveProject, resultsDocument } = await engine();
-  const project = await load(io, projectDir);
+  const { solveProject, resultsDocument, ParseCache, PARSE_CACHE_FILE } = await engine();
+  // what reading the project's files gave the last build into OUT (model/parse-cache.ts)
+  const parsed = opts.force ? ParseCache.empty() : ParseCache.read(path.join(outDir, CACHE_FOLDER, PARSE_CACHE_FILE));
+  const project = await load(io, projectDir, parsed);
   const result = solveProject(project);
   io.signal?.throwIfAborted();
   const doc = resultsDocument(project, result);
@@ -257,6 +266,7 @@ async function solveAndBuild(io: CliIo, projectDir: string, outDir: string, opts
       jobs: opts.jobs,
       signal: io.signal,
       pool,
+      cacheFiles: [{ name: PARSE_CACHE_FILE, bytes: () => parsed.bytes() }],
     });
   } catch (e) {
     // two sheets on one file name, an output folder that cannot be used, a project template that does not compile

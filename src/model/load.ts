@@ -24,7 +24,8 @@ import {
   signoffSchema,
   supplySchema,
 } from './schema.js';
-import { parseYamlFile, sourcePos, type PathSegment, type SourceFile } from './source.js';
+import { ParseCache } from './parse-cache.js';
+import { sourcePos, type PathSegment, type SourceFile } from './source.js';
 import { checkProjectRefs, refAt, type CircuitRefs, type DeviceRefs, type ProjectRefs, type SupplyRefs, type UnreadParts } from './topology.js';
 import type { AppliedDefault, Circuit, Device, Project, ProjectMeta, Settings, Signoff, Supply } from './types.js';
 import { loadUnitLibrary, UnitLibraryNeeded } from './units.js';
@@ -34,15 +35,16 @@ export type LoadOutcome =
   | { ok: true; project: Project; warnings: Issue[] } // warnings: problems that do not stop the solve
   | { ok: false; issues: Issue[] }; // errors and warnings, sorted by file, line, column
 
-export async function loadProject(dir: string): Promise<LoadOutcome> {
+/** Read and check a project folder; with `cache`, files unchanged since it was written are not parsed again. */
+export async function loadProject(dir: string, cache?: ParseCache): Promise<LoadOutcome> {
   const folder = await readProjectFolder(dir);
   try {
-    return buildProject(folder);
+    return buildProject(folder, cache);
   } catch (error) {
     // A unit our own reader does not know: load mathjs's units and read the project again.
     if (!(error instanceof UnitLibraryNeeded)) throw error;
     await loadUnitLibrary();
-    return buildProject(folder);
+    return buildProject(folder, cache);
   }
 }
 
@@ -208,7 +210,7 @@ const byId = <T extends { id: string }>(a: T, b: T): number => (a.id < b.id ? -1
 
 /** Pure: from the files read to the outcome. Throws UnitLibraryNeeded where a unit needs mathjs and it is
  * not loaded (loadProject loads it and calls again). */
-export function buildProject(folder: ProjectFolder): LoadOutcome {
+export function buildProject(folder: ProjectFolder, cache: ParseCache = ParseCache.empty()): LoadOutcome {
   const issues: Issue[] = folder.problems.map(readProblemIssue);
   const sources: SourceFile[] = [];
   for (const input of folder.files) {
@@ -219,7 +221,7 @@ export function buildProject(folder: ProjectFolder): LoadOutcome {
       issues.push(problem('invalid-encoding', { file: input.path, line: 0, col: 0, path: '' }, {}));
       continue;
     }
-    const parsed = parseYamlFile(input.path, text);
+    const parsed = cache.parse(input.path, input.bytes, () => text);
     issues.push(...parsed.issues);
     if (parsed.ok) sources.push(parsed.file);
   }

@@ -24,12 +24,20 @@ export type PathSegment = string | number;
 /** Above this many alias expansions a document is rejected (exponential "billion laughs" input). */
 export const MAX_ALIAS_COUNT = 100;
 
-export interface SourceFile {
-  path: string; // relative to the project folder, posix separators
+/** A file's YAML tree, kept for finding where a field was written. */
+export interface SourceTree {
   doc: Document.Parsed;
   lineCounter: LineCounter;
-  value: unknown; // the plain JS value of the document
   aliasTargets?: ReadonlyMap<YamlNode, YamlNode>; // each alias node's anchor, found once when parsed
+}
+
+export interface SourceFile {
+  path: string; // relative to the project folder, posix separators
+  value: unknown; // the plain JS value of the document
+  /** The tree: the one just parsed, or, for a file taken from the parse cache, parsed again on first need. */
+  tree: () => SourceTree;
+  /** Positions found in the file so far (locate), by path and kind: kept by the parse cache (parse-cache.ts). */
+  located: Map<string, { line: number; col: number }>;
 }
 
 /**
@@ -97,8 +105,9 @@ export function parseYamlFile(path: string, text: string): ParseOutcome {
     const detail = error instanceof ReferenceError ? `aliases expand more than ${MAX_ALIAS_COUNT} times` : firstLine(error instanceof Error ? error.message : String(error));
     return { ok: false, issues: [problem('yaml-alias-limit', { file: path, ...at(offset), path: '' }, { detail }), ...warnings] };
   }
-  const file: SourceFile = { path, doc, lineCounter, value, aliasTargets: structure.aliasTargets };
-  keepTextAsWritten(file, source);
+  const tree: SourceTree = { doc, lineCounter, aliasTargets: structure.aliasTargets };
+  const file: SourceFile = { path, value, tree: () => tree, located: new Map() };
+  keepTextAsWritten(file, doc, source);
   return { ok: true, file, issues: warnings };
 }
 
@@ -262,7 +271,7 @@ function firstAliasOffset(doc: Document.Parsed): number | undefined {
 }
 
 /** Ids and free text as written; dates (from a YAML 1.1 timestamp) as YYYY-MM-DD. */
-function keepTextAsWritten(file: SourceFile, source: string): void {
+function keepTextAsWritten(file: SourceFile, doc: Document.Parsed, source: string): void {
   const walk = (node: unknown, path: PathSegment[]): void => {
     if (isMap(node)) {
       for (const pair of node.items) {
@@ -290,7 +299,7 @@ function keepTextAsWritten(file: SourceFile, source: string): void {
       node.items.forEach((item, index) => walk(item, [...path, index]));
     }
   };
-  walk(file.doc.contents, []);
+  walk(doc.contents, []);
 }
 
 function scalarSource(node: { value: unknown; range?: [number, number, number] | null }, source: string): string {
@@ -325,9 +334,9 @@ interface Located {
   keyNode?: YamlNode; // the key under which it sits, for a mapping value
 }
 
-function resolveAlias(file: SourceFile, node: unknown): unknown {
+function resolveAlias(tree: SourceTree, node: unknown): unknown {
   if (!isAlias(node)) return node;
-  return file.aliasTargets?.get(node) ?? node.resolve(file.doc);
+  return tree.aliasTargets?.get(node) ?? node.resolve(tree.doc);
 }
 
 const pairIndexes = new WeakMap<object, Map<string, Pair>>();
@@ -353,10 +362,19 @@ function pairFor(map: YAMLMap, key: string): Pair | undefined {
  * With `key`, a mapping's key rather than its value (an unknown field).
  */
 export function locate(file: SourceFile, path: readonly PathSegment[], options: { key?: boolean } = {}): { line: number; col: number } {
-  let current: Located = { node: file.doc.contents as YamlNode };
+  const known = `${options.key ? 'key' : 'value'} ${JSON.stringify(path)}`;
+  const found = file.located.get(known);
+  if (found !== undefined) return { line: found.line, col: found.col };
+  const pos = locateInTree(file.tree(), path, options);
+  file.located.set(known, { line: pos.line, col: pos.col });
+  return pos;
+}
+
+function locateInTree(tree: SourceTree, path: readonly PathSegment[], options: { key?: boolean }): { line: number; col: number } {
+  let current: Located = { node: tree.doc.contents as YamlNode };
   let complete = true;
   for (const segment of path) {
-    const node = resolveAlias(file, current.node);
+    const node = resolveAlias(tree, current.node);
     let next: Located | undefined;
     if (isMap(node)) {
       const pair = pairFor(node, String(segment));
@@ -378,7 +396,7 @@ export function locate(file: SourceFile, path: readonly PathSegment[], options: 
   const emptyValue = isScalar(current.node) && current.node.value === null && current.node.range?.[0] === current.node.range?.[1];
   const target = (!complete || options.key || emptyValue) && current.keyNode !== undefined ? current.keyNode : current.node;
   const offset = target?.range?.[0] ?? 0;
-  return file.lineCounter.linePos(offset);
+  return tree.lineCounter.linePos(offset);
 }
 
 export function sourcePos(file: SourceFile, path: readonly PathSegment[]): SourcePos {

@@ -46,6 +46,8 @@ export interface BuildOptions {
    * memory is then free for the summary and the dossier).
    */
   pool?: SheetPool;
+  /** Further files for OUT's cache folder, written with the manifest (the command line's parse cache). */
+  cacheFiles?: ReadonlyArray<{ name: string; bytes: () => Uint8Array }>;
 }
 
 /** FAULTSHEET_TIMINGS=1: the time of each phase of a build on stderr (for profiling; see DEVELOPERS.md). */
@@ -229,6 +231,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     manifest.dossier = { size: dossierStat.size, mtimeMs: dossierStat.mtimeMs, records: written.records };
     clock(`dossier (${written.reused} of ${result.circuits.length} sheets and ${written.reusedFront} of ${summary.parts.length} summary parts copied from the last one)`);
     await staging.write(RESULTS_FILE, JSON.stringify(resultsJson, null, 2) + '\n');
+    for (const extra of opts.cacheFiles ?? []) await staging.write(`${CACHE_DIR}/${extra.name}`, extra.bytes());
     await staging.write(`${CACHE_DIR}/${MANIFEST_FILE}`, JSON.stringify(manifest) + '\n');
     signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
     await staging.commit();

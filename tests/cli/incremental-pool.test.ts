@@ -1,7 +1,8 @@
 // The compiled program as a user runs it, on a one-edit rebuild: the edited sheet renders on a
 // worker thread while the main thread lays out the summary with the page counts of the last build
 // (report/build.ts). The files must be those of a full build of the edited project, byte for byte,
-// also when the edit changes the edited sheet's page count (the summary is then laid out again).
+// also when the edit changes the edited sheet's page count (the summary is then laid out again), and
+// whatever state the parse cache in OUT is in.
 import { spawnSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
@@ -52,5 +53,16 @@ describe('a one-edit rebuild with the sheet on a worker thread', () => {
     expect(pages('out/DP2-1.pdf')).toBeGreaterThan(sheetPages);
     expect(build('full2', '--force').code).toBe(0);
     expect(files('out')).toEqual(files('full2'));
+
+    // the parse cache (model/parse-cache.ts) damaged in OUT: read as empty, the same bytes again
+    const parsed = path.join(tmp.dir, 'out', '.faultsheet-cache', 'parsed.bin');
+    const cache = readFileSync(parsed);
+    expect(cache.length).toBeGreaterThan(100);
+    writeFileSync(parsed, cache.subarray(0, cache.length >> 1));
+    writeFileSync(circuit(), readFileSync(circuit(), 'utf8').replace('length: 160 ft', 'length: 170 ft'));
+    expect(build('out').code).toBe(0);
+    expect(build('full3', '--force').code).toBe(0);
+    expect(files('out')).toEqual(files('full3'));
+    expect(readFileSync(parsed).length).toBeGreaterThan(100); // written whole again
   }, 180_000);
 });

@@ -6,7 +6,9 @@
 import fc from 'fast-check';
 import { parseDocument, stringify } from 'yaml';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { outcomeProblems, readTextFiles, runPipeline, type TextFile } from './harness.js';
+import { buildProject } from '../../src/model/load.js';
+import { ParseCache } from '../../src/model/parse-cache.js';
+import { folderOf, outcomeProblems, readTextFiles, runPipeline, type TextFile } from './harness.js';
 
 const PROJECTS = ['projects-demo/iec-400v', 'projects-demo/nec-480v', 'tests/fixtures/model/good'];
 // Fixed: a failure reproduces with the same runs. HOSTILE_SEED / HOSTILE_RUNS explore further by hand.
@@ -250,6 +252,36 @@ function check(files: TextFile[], lazy: boolean): void {
 
 const project = fc.constantFrom(...PROJECTS);
 
+/** The parse cache a build of the unmutated project leaves (model/parse-cache.ts), as the next build reads it. */
+const cacheBytes = new Map<string, Uint8Array>();
+function cacheOf(dir: string): ParseCache {
+  let bytes = cacheBytes.get(dir);
+  if (bytes === undefined) {
+    const cache = ParseCache.empty();
+    buildProject(folderOf(projects.get(dir)!), cache);
+    bytes = cache.bytes();
+    cacheBytes.set(dir, bytes);
+  }
+  return ParseCache.from(bytes);
+}
+
+/** A reading that takes the unchanged files from the cache gives exactly the reading from scratch. */
+function checkCached(dir: string, files: TextFile[]): void {
+  let fresh: unknown;
+  try {
+    fresh = buildProject(folderOf(files));
+  } catch (error) {
+    fresh = `threw: ${String(error)}`;
+  }
+  let cached: unknown;
+  try {
+    cached = buildProject(folderOf(files), cacheOf(dir));
+  } catch (error) {
+    cached = `threw: ${String(error)}`;
+  }
+  expect(cached).toStrictEqual(fresh);
+}
+
 describe('random mutations of valid projects', () => {
   it('the unmutated projects solve to finite numbers', () => {
     for (const dir of PROJECTS) {
@@ -274,6 +306,17 @@ describe('random mutations of valid projects', () => {
         check(editText(projects.get(dir)!, edits), false);
       }),
       { seed: SEED, numRuns: Math.round(70 * RUNS), endOnFailure: true },
+    );
+  });
+
+  it('read with the parse cache of the unmutated project, any edit gives the outcome a reading from scratch gives', () => {
+    const edited = fc.oneof(
+      fc.tuple(project, fc.array(documentEdit, { minLength: 1, maxLength: 4 })).map(([dir, edits]) => ({ dir, files: editDocuments(projects.get(dir)!, edits) })),
+      fc.tuple(project, fc.array(textEdit, { minLength: 1, maxLength: 3 })).map(([dir, edits]) => ({ dir, files: editText(projects.get(dir)!, edits) })),
+    );
+    fc.assert(
+      fc.property(edited, ({ dir, files }) => checkCached(dir, files)),
+      { seed: SEED, numRuns: Math.round(100 * RUNS), endOnFailure: true },
     );
   });
 });
