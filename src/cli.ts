@@ -266,6 +266,7 @@ async function solveAndBuild(io: CliIo, projectDir: string, outDir: string, opts
       jobs: opts.jobs,
       signal: io.signal,
       pool,
+      changedInputs: parsed.changed(),
       cacheFiles: [{ name: PARSE_CACHE_FILE, bytes: () => parsed.bytes() }],
     });
   } catch (e) {

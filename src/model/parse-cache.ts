@@ -74,7 +74,14 @@ function plain(value: unknown, depth = 0): boolean {
 export class ParseCache {
   private readonly kept = new Map<string, { value: Buffer; file: SourceFile }>(); // by key: a second reading of the project replaces the first
 
+  private readonly parsedAgain = new Set<string>();
+
   private constructor(private readonly before: ReadonlyMap<string, Entry>) {}
+
+  /** The files this reading had to parse (changed since the cache was written); undefined for an empty cache. */
+  changed(): ReadonlySet<string> | undefined {
+    return this.before.size > 0 ? this.parsedAgain : undefined;
+  }
 
   static empty(): ParseCache {
     return new ParseCache(new Map());
@@ -132,6 +139,7 @@ export class ParseCache {
         return { ok: true, file: source, issues: [] };
       }
     }
+    this.parsedAgain.add(file);
     const parsed = parseYamlFile(file, text());
     if (parsed.ok && parsed.issues.length === 0 && plain(parsed.file.value)) this.kept.set(key, { value: serialize(parsed.file.value), file: parsed.file });
     return parsed;

@@ -59,11 +59,20 @@ function answer<T extends SheetDone | PartDone>(done: Answer, kind: 'part' | 'sh
 export interface SheetPool {
   readonly maxThreads: number;
   /**
-   * Render the sheets `indices` (positions in result.circuits); `onSheet` is called once per sheet,
-   * one call at a time, in completion order. Rejects on the first failure (or when `signal`
-   * aborts), after the tasks still running have stopped.
+   * Render the sheets `indices` (positions in result.circuits), then those `more` gives, when it
+   * comes (the caller is still finding them); `onSheet` is called once per sheet, one call at a
+   * time, in completion order. Rejects on the first failure (or when `signal` aborts), after the
+   * tasks still running have stopped.
    */
-  render(project: Project, result: ProjectResult, indices: number[], templates: TemplateSet, onSheet: (done: SheetDone) => Promise<void>, signal?: AbortSignal): Promise<void>;
+  render(
+    project: Project,
+    result: ProjectResult,
+    indices: number[],
+    templates: TemplateSet,
+    onSheet: (done: SheetDone) => Promise<void>,
+    signal?: AbortSignal,
+    more?: Promise<number[]>,
+  ): Promise<void>;
   /**
    * Lay out one part of the summary (summary.ts summaryPartDocument) on a worker, after the sheets
    * `render` has handed out so far and on one of its lanes (no worker is started for it). Only
@@ -130,7 +139,7 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
       const bytes = answer<PartDone>(done, 'part').part;
       return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     },
-    async render(project, result, indices, templates, onSheet, signal) {
+    async render(project, result, indices, templates, onSheet, signal, more) {
       const files = templates.files();
       // a sheet shows its own circuit and device only: the rest of the project travels once, and each
       // task brings those two (a worker then holds no copy of every circuit)
@@ -150,28 +159,48 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
       // is let finish: cutting a worker off inside the canvas addon aborts the whole process (a
       // fatal N-API error, seen here when a build was interrupted mid-chart).
       const count = result.circuits.length;
+      const queue = [...indices];
       let next = 0;
+      let waiting = more; // the sheets still to come, until a lane has taken them into the queue
       let first: { err: unknown } | null = null;
       const stopped = (): boolean => first !== null || signal?.aborted === true;
       let chain = Promise.resolve();
+      const lanes: Array<Promise<void>> = [];
       const lane = async (): Promise<void> => {
-        while (next < indices.length && !stopped()) {
-          const index = indices[next++];
-          const cr = result.circuits[index];
-          const input = circuitOf.get(cr.id);
-          if (!input) throw new Error(`internal error: circuit ${cr.id} is in the result but not in the project`);
-          // The solver samples chart series on first use (a non-enumerable getter, which a structured
-          // clone would drop): take them now so the worker gets plain data.
-          const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device: deviceOf.get(cr.device), data };
-          const done = answer<SheetDone>(await gate.run(() => pool.run(task)), 'sheet');
-          if (stopped()) return;
-          // the sheets are taken one at a time, in completion order, while the worker goes on
-          chain = chain.then(() => (stopped() ? undefined : onSheet(done))).catch((err: unknown) => void (first ??= { err }));
+        for (;;) {
+          while (next < queue.length && !stopped()) {
+            const index = queue[next++];
+            const cr = result.circuits[index];
+            const input = circuitOf.get(cr.id);
+            if (!input) throw new Error(`internal error: circuit ${cr.id} is in the result but not in the project`);
+            // The solver samples chart series on first use (a non-enumerable getter, which a structured
+            // clone would drop): take them now so the worker gets plain data.
+            const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device: deviceOf.get(cr.device), data };
+            const done = answer<SheetDone>(await gate.run(() => pool.run(task)), 'sheet');
+            if (stopped()) return;
+            // the sheets are taken one at a time, in completion order, while the worker goes on
+            chain = chain.then(() => (stopped() ? undefined : onSheet(done))).catch((err: unknown) => void (first ??= { err }));
+          }
+          if (stopped() || waiting === undefined) return;
+          const coming = waiting;
+          const extra = await coming;
+          if (waiting !== coming) continue; // another lane took them
+          waiting = undefined;
+          queue.push(...extra);
+          widen();
         }
       };
-      gate.width = Math.max(1, Math.min(maxThreads, indices.length));
-      const lanes = Array.from({ length: gate.width }, () => lane().catch((err: unknown) => void (first ??= { err })));
-      await Promise.all(lanes);
+      // one lane per thread with sheets to give it (at least one, to wait for `more`)
+      const widen = (): void => {
+        gate.width = Math.max(gate.width, 1, Math.min(maxThreads, queue.length - next));
+        while (lanes.length < gate.width) lanes.push(lane().catch((err: unknown) => void (first ??= { err })));
+      };
+      gate.width = 0;
+      widen();
+      for (let awaited = 0; awaited < lanes.length; ) {
+        awaited = lanes.length;
+        await Promise.all(lanes);
+      }
       await chain;
       if (signal?.aborted) throw signal.reason ?? new Error('aborted');
       if (first) throw (first as { err: unknown }).err;

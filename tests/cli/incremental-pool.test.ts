@@ -64,5 +64,15 @@ describe('a one-edit rebuild with the sheet on a worker thread', () => {
     expect(build('full3', '--force').code).toBe(0);
     expect(files('out')).toEqual(files('full3'));
     expect(readFileSync(parsed).length).toBeGreaterThan(100); // written whole again
+
+    // an edit of the feeder of DP-2: its sheet starts on a worker first (its file changed), and the
+    // four sheets of DP-2, changed by it, follow once their keys are known
+    const feeder = path.join(tmp.dir, 'p', 'circuits', 'MDB-1.yaml');
+    writeFileSync(feeder, readFileSync(feeder, 'utf8').replace('length: 160 ft', 'length: 180 ft'));
+    const upstream = build('out');
+    expect(upstream.code).toBe(0);
+    expect(upstream.stderr).toMatch(/plan and cache \(5 to render, \d+ kept\)/);
+    expect(build('full4', '--force').code).toBe(0);
+    expect(files('out')).toEqual(files('full4'));
   }, 180_000);
 });
