@@ -9,6 +9,8 @@
 //   page edit   then give that circuit forty assumptions (its sheet gains a page, so every later
 //               sheet's dossier page moves), and build again: the costlier kind of one-edit rebuild
 //   peak memory the largest resident set of the full build (all threads), from the OS
+// Before each timed run the bench calls `sync` (untimed), so that no run pays for the writing back
+// of the one before it.
 // Targets (issue 5, 2-core machine): solve 2000 circuits < 2 s; full build < 0.1 s per sheet;
 // one-edit rebuild of 1000 circuits < 3 s; peak memory of a 2000-circuit build < 1.5 GiB.
 
@@ -32,6 +34,9 @@ interface Run {
 function faultsheet(args: string[], work: string): Run {
   const rssFile = path.join(work, 'rss');
   rmSync(rssFile, { force: true });
+  // Each timed run starts with the disk settled: the last build's hundreds of megabytes flushed
+  // (untimed), as when edits come minutes apart, not with the kernel still writing them back.
+  spawnSync('sync');
   const started = performance.now();
   const r = spawnSync(process.execPath, ['--import', preload, bin, ...args], {
     env: { ...process.env, FAULTSHEET_BENCH_RSS: rssFile },
