@@ -7,6 +7,7 @@ import type { TDocumentDefinitions } from 'pdfmake/interfaces.js';
 import { ChartJSNodeCanvas } from 'chartjs-node-canvas';
 import type { Chart, Plugin } from 'chart.js';
 import { FONT, TABLE_LAYOUTS } from './layout.js';
+import { indexedPng } from './png.js';
 import { CHART_FONT, CHART_HEIGHT, CHART_WIDTH, type MarksOptions, type SheetChart } from './charts.js';
 import { fontFiles, readFonts } from './assets.js';
 import { createRequire } from 'node:module';
@@ -220,12 +221,14 @@ function opaquePng(canvas: ChartJSNodeCanvas): void {
     const c = create(w, h, type) as { getContext: (kind: string, attrs?: object) => unknown; toBuffer: (mime?: string, opts?: object) => Buffer; PNG_FILTER_NONE?: number };
     const getContext = c.getContext.bind(c);
     c.getContext = (kind: string, attrs?: object) => rememberMeasures(getContext(kind, { ...(attrs ?? {}), pixelFormat: 'RGB24' }));
-    // No PNG row filter, zlib level 6: on these charts (large flat areas, thin lines) a fifth fewer
-    // bytes and about half the encoding time of libpng's adaptive filtering at level 3 (measured on
-    // the benchmark's sheets: 153 against 190 kB of images a sheet, 6 against 10 ms a chart).
+    // A chart is written as a palette PNG (png.ts): on the benchmark's sheets 66 against 153 kB of
+    // images a sheet, and 8 against 16 ms a chart for libpng's RGB encoding (no row filter, zlib
+    // level 6, which was itself a fifth smaller and twice as fast as libpng's adaptive filters).
+    // A chart with too many colours for a palette is written as RGB that way.
     const toBuffer = c.toBuffer.bind(c);
     const png = { compressionLevel: 6, filters: c.PNG_FILTER_NONE ?? 8 };
-    c.toBuffer = (mime?: string, opts?: object) => (mime === 'image/png' && opts === undefined ? toBuffer(mime, png) : toBuffer(mime, opts));
+    const encode = (): Buffer => indexedPng(toBuffer('raw'), w, h) ?? toBuffer('image/png', png);
+    c.toBuffer = (mime?: string, opts?: object) => (mime === 'image/png' && opts === undefined ? encode() : toBuffer(mime, opts));
     kept.set(key, c);
     return c;
   };
