@@ -4,11 +4,12 @@
 // less than half the bytes of an RGB PNG (measured: 22 against 51 kB a chart), and since every
 // sheet's images are copied into the dossier, that is a third of the dossier's bytes.
 //
-// The palette is the image's own colours, most used first (ties by colour value, so the same
-// pixels always give the same bytes). A pixel whose colour is not in it (only when the image has
-// more than 256) takes the nearest palette colour, by squared distance in RGB; such pixels are
-// anti-aliased edge shades, a step or two from a palette shade. An image with more colours than
-// MAX_COLOURS is not a chart like ours, and the caller encodes it as RGB instead (null).
+// The palette is the image's own colours: all of them when there are at most 256; otherwise the
+// FREQUENT most used (ties by colour value, so the same pixels always give the same bytes), then,
+// one at a time, the colour whose pixels lie farthest from the palette so far. A pixel whose colour
+// is not in it takes the nearest palette colour, by squared distance in RGB; such pixels are
+// anti-aliased edge shades. An image with more colours than MAX_COLOURS is not a chart like ours,
+// and the caller encodes it as RGB instead (null).
 
 import { deflateSync } from 'node:zlib';
 
@@ -31,9 +32,8 @@ let scratch: Scratch | null = null;
 /** Working arrays, kept from one image to the next (a sheet's charts are all one size). */
 function scratchFor(width: number, height: number): Scratch {
   const n = width * height;
-  if (!scratch || scratch.runEnds.length < n) {
+  if (!scratch || scratch.runEnds.length < n || scratch.rows.length < n + height)
     scratch = { keys: new Int32Array(SLOTS), counts: new Float64Array(SLOTS), runEnds: new Int32Array(n), runSlots: new Uint16Array(n), rows: new Uint8Array(n + height) };
-  } else if (scratch.rows.length < n + height) scratch.rows = new Uint8Array(n + height);
   return scratch;
 }
 

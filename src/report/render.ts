@@ -222,9 +222,10 @@ function opaquePng(canvas: ChartJSNodeCanvas): void {
     const getContext = c.getContext.bind(c);
     c.getContext = (kind: string, attrs?: object) => rememberMeasures(getContext(kind, { ...(attrs ?? {}), pixelFormat: 'RGB24' }));
     // A chart is written as a palette PNG (png.ts): on the benchmark's sheets 66 against 153 kB of
-    // images a sheet, and 8 against 16 ms a chart for libpng's RGB encoding (no row filter, zlib
-    // level 6, which was itself a fifth smaller and twice as fast as libpng's adaptive filters).
-    // A chart with too many colours for a palette is written as RGB that way.
+    // images a sheet, for about the CPU of libpng's RGB encoding (7 against 6 ms a chart, measured
+    // on charts as drawn, and less for pdfkit to copy). A chart with too many colours for a palette
+    // is written as RGB: no row filter, zlib level 6, a fifth smaller and twice as fast as libpng's
+    // adaptive filters.
     const toBuffer = c.toBuffer.bind(c);
     const png = { compressionLevel: 6, filters: c.PNG_FILTER_NONE ?? 8 };
     const encode = (): Buffer => indexedPng(toBuffer('raw'), w, h) ?? toBuffer('image/png', png);
