@@ -64,8 +64,17 @@ export function pdfPages(file: string): number {
   return Number(/^Pages:\s+(\d+)/m.exec(info)?.[1] ?? NaN);
 }
 
+/** The images of a PDF as poppler's `pdfimages -list` lists them, a row of its columns each (page, num, type, width, height, color, ...). */
+export function pdfImageList(file: string): string[][] {
+  const list = execFileSync('pdfimages', ['-list', file], { encoding: 'utf8' });
+  return list
+    .trim()
+    .split('\n')
+    .slice(2) // two header lines
+    .map((line) => line.trim().split(/\s+/));
+}
+
 /** Image count of a PDF via poppler's pdfimages. */
 export function pdfImages(file: string): number {
-  const list = execFileSync('pdfimages', ['-list', file], { encoding: 'utf8' });
-  return list.trim().split('\n').length - 2; // two header lines
+  return pdfImageList(file).length;
 }
