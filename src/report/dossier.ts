@@ -154,12 +154,16 @@ class Helvetica {
  * sheet's, in order. Returns the pages written and where each part lies (for the next build).
  */
 export function writeDossier(outPath: string, front: DossierPart[], sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
-  const sink = new PdfSink(outPath);
+  const writer = new DossierWriter(outPath, sheets, front.reduce((n, p) => n + p.pages, 0), meta, reuse);
   try {
-    return writeParts(sink, front, sheets, meta, reuse);
+    return writer.finish(front, sheets) ?? internalStale();
   } finally {
-    sink.close();
+    writer.close();
   }
+}
+
+function internalStale(): never {
+  throw new Error('internal error: the dossier was written with the page counts it was given, and they changed');
 }
 
 /**
@@ -200,101 +204,165 @@ function recordName(part: DossierPart, front: boolean): string | undefined {
   return front ? `front:${part.file}` : part.file;
 }
 
-function writeParts(sink: PdfSink, front: DossierPart[], sheets: DossierPart[], meta: DossierMeta, reuse?: DossierReuse): DossierWritten {
-  const parts = [...front, ...sheets];
-  const totalPages = parts.reduce((n, p) => n + p.pages, 0);
-  sink.write('%PDF-1.7\n%\xe2\xe3\xcf\xd3\n');
+/**
+ * A dossier written in two steps, so that the sheets that are ready (an incremental build's kept
+ * ones) go into the file while others still render: `advance` writes sheets in order up to one not
+ * ready, `finish` writes the rest, the front parts and the trailer. Every page carries the page
+ * total, and a sheet's place depends on the front's length: the writer starts from counts it is
+ * given (the last build's, for sheets still rendering and for the front), and `finish` returns null
+ * when the parts as they came out have other counts; the caller then writes the file again.
+ */
+export class DossierWriter {
+  private readonly sink: PdfSink;
+  private readonly totalPages: number;
+  private readonly pagesNum: number;
+  private readonly catalogNum: number;
+  private readonly outlinesNum: number;
+  private readonly infoNum: number;
+  private readonly stamp: Helvetica | null;
+  private fontNum = 0;
+  private saveNum = 0;
+  private restoreNum = 0;
+  private readonly old: number | null;
+  private readonly sheetFiles = new Map<string, number>(); // sheet file -> its first page object
+  private readonly records: Record<string, PartRecord> = {};
+  private readonly written: DossierPart[] = []; // the sheets written so far, as they were given
+  private readonly sheetKids: number[][] = [];
+  private frontKids: number[][] = [];
+  private reused = 0;
+  private reusedFront = 0;
+  private links = '';
+  private pageNo: number; // pages before the next sheet
 
-  const catalogNum = sink.allocate();
-  const pagesNum = sink.allocate();
-  const outline = meta.outline !== false;
-  const outlinesNum = outline ? sink.allocate() : 0;
-  const infoNum = sink.allocate();
-  const stamp = meta.pageLabel ? new Helvetica() : null;
-  let fontNum = 0;
-  let saveNum = 0;
-  let restoreNum = 0;
-  if (stamp) {
-    // Helvetica is one of the standard fonts of PDF (32000-1:2008 9.6.2.2): nothing is embedded.
-    fontNum = sink.allocate();
-    sink.object(fontNum, '<< /Type /Font /Subtype /Type1 /BaseFont /Helvetica /Encoding /WinAnsiEncoding >>');
-    // Each page's own content is wrapped in q ... Q, so the stamp starts from the default state.
-    saveNum = sink.allocate();
-    sink.object(saveNum, '<< /Length 1 >>\nstream', Buffer.from('q\nendstream', 'latin1'));
-    restoreNum = sink.allocate();
-    sink.object(restoreNum, '<< /Length 1 >>\nstream', Buffer.from('Q\nendstream', 'latin1'));
+  /** Open `outPath` (a new file) for a dossier of `sheets` after `frontPages` pages of front parts. */
+  constructor(
+    readonly outPath: string,
+    sheets: readonly DossierPart[],
+    private readonly frontPages: number,
+    private readonly meta: DossierMeta,
+    private readonly reuse?: DossierReuse,
+  ) {
+    this.totalPages = frontPages + sheets.reduce((n, p) => n + p.pages, 0);
+    this.pageNo = frontPages;
+    const sink = (this.sink = new PdfSink(outPath));
+    try {
+      sink.write('%PDF-1.7\n%\xe2\xe3\xcf\xd3\n');
+      this.catalogNum = sink.allocate();
+      this.pagesNum = sink.allocate();
+      this.outlinesNum = meta.outline !== false ? sink.allocate() : 0;
+      this.infoNum = sink.allocate();
+      this.stamp = meta.pageLabel ? new Helvetica() : null;
+      if (this.stamp) {
+        // Helvetica is one of the standard fonts of PDF (32000-1:2008 9.6.2.2): nothing is embedded.
+        this.fontNum = sink.allocate();
+        sink.object(this.fontNum, '<< /Type /Font /Subtype /Type1 /BaseFont /Helvetica /Encoding /WinAnsiEncoding >>');
+        // Each page's own content is wrapped in q ... Q, so the stamp starts from the default state.
+        this.saveNum = sink.allocate();
+        sink.object(this.saveNum, '<< /Length 1 >>\nstream', Buffer.from('q\nendstream', 'latin1'));
+        this.restoreNum = sink.allocate();
+        sink.object(this.restoreNum, '<< /Length 1 >>\nstream', Buffer.from('Q\nendstream', 'latin1'));
+      }
+      this.old = reuse ? openSync(reuse.path, 'r') : null;
+    } catch (err) {
+      sink.close();
+      throw err;
+    }
   }
 
-  // The sheets are written first and the front parts last (the page order is still the front's
-  // first): a change in the summary's objects then moves no sheet's object numbers, and the
-  // summary's links can name the sheets' first pages directly.
-  const sheetFiles = new Map<string, number>(); // sheet file -> its first page object
-  const firstPages: number[] = new Array(parts.length);
-  const kidsOf: number[][] = new Array(parts.length);
-  const records: Record<string, PartRecord> = {};
-  const frontPages = front.reduce((n, p) => n + p.pages, 0);
-  let reused = 0;
-  let reusedFront = 0;
-  let links = '';
-  const old = reuse ? openSync(reuse.path, 'r') : null;
-  try {
-    /** Write parts[i], first page pageNo + 1: copied from the previous dossier if nothing about it moved. */
-    const place = (i: number, pageNo: number): void => {
-      const part = parts[i];
-      const isFront = i < front.length;
-      const name = recordName(part, isFront);
-      const rec = name !== undefined ? reuse?.records.get(name) : undefined;
-      const base = sink.size;
-      const start = sink.offset;
-      const partLinks = isFront ? links : '';
-      if (old && rec && rec.key === part.key && rec.links === partLinks && rec.base === base && rec.pageOffset === pageNo && rec.total === totalPages && rec.kids.length === part.pages) {
-        const bytes = Buffer.allocUnsafe(rec.end - rec.start);
-        let got = 0;
-        while (got < bytes.length) {
-          const n = readSync(old, bytes, got, bytes.length - got, rec.start + got);
-          if (n === 0) throw new Error(`internal error: ${reuse!.path} is shorter than its cache says`);
-          got += n;
-        }
-        for (let k = 0; k < rec.count; k++) sink.offsets[sink.allocate()] = start + rec.rel[k];
-        sink.write(bytes);
-        kidsOf[i] = rec.kids;
-        if (isFront) reusedFront++;
-        else reused++;
-      } else kidsOf[i] = copyPart(part, pageNo, isFront);
-      firstPages[i] = kidsOf[i][0];
-      if (name !== undefined)
-        records[name] = {
-          key: part.key!,
-          links: partLinks,
-          base,
-          count: sink.size - base,
-          pageOffset: pageNo,
-          total: totalPages,
-          start,
-          end: sink.offset,
-          rel: sink.offsets.slice(base, sink.size).map((o) => o - start),
-          kids: kidsOf[i],
-        };
-    };
-    let pageNo = frontPages;
-    for (let i = front.length; i < parts.length; i++) {
-      place(i, pageNo);
-      pageNo += parts[i].pages;
-      if (parts[i].file !== undefined) sheetFiles.set(parts[i].file!, firstPages[i]);
-    }
-    links = front.length ? createHash('sha256').update(JSON.stringify([...sheetFiles])).digest('hex') : '';
-    pageNo = 0;
-    for (let i = 0; i < front.length; i++) {
-      place(i, pageNo);
-      pageNo += parts[i].pages;
-    }
-  } finally {
-    if (old !== null) closeSync(old);
+  /** Sheets written so far. */
+  get sheetsWritten(): number {
+    return this.written.length;
   }
-  const kids = kidsOf.flat();
+
+  /**
+   * Write the sheets from the next one up to sheets[end - 1]. The sheets are written first and the
+   * front parts last (the page order is still the front's first): a change in the summary's
+   * objects then moves no sheet's object numbers, and the summary's links can name the sheets'
+   * first pages directly.
+   */
+  advance(sheets: readonly DossierPart[], end: number): void {
+    for (let i = this.written.length; i < end; i++) {
+      const part = sheets[i];
+      const kids = this.place(part, false, this.pageNo);
+      this.sheetKids.push(kids);
+      this.written.push(part);
+      this.pageNo += part.pages;
+      if (part.file !== undefined) this.sheetFiles.set(part.file, kids[0]);
+    }
+  }
+
+  /**
+   * Write the sheets not yet written, the front parts, the page tree, outline and trailer. Null when
+   * the parts have other page counts than those the writer started from (nothing more is written).
+   */
+  finish(front: readonly DossierPart[], sheets: readonly DossierPart[]): DossierWritten | null {
+    const frontPages = front.reduce((n, p) => n + p.pages, 0);
+    const totalPages = frontPages + sheets.reduce((n, p) => n + p.pages, 0);
+    const same = (a: DossierPart, b: DossierPart): boolean => a.path === b.path && a.pages === b.pages && a.key === b.key && a.file === b.file && a.title === b.title;
+    if (frontPages !== this.frontPages || totalPages !== this.totalPages || this.written.length > sheets.length || this.written.some((p, i) => !same(p, sheets[i]))) return null;
+    this.advance(sheets, sheets.length);
+    this.links = front.length ? createHash('sha256').update(JSON.stringify([...this.sheetFiles])).digest('hex') : '';
+    let pageNo = 0;
+    this.frontKids = front.map((part) => {
+      const kids = this.place(part, true, pageNo);
+      pageNo += part.pages;
+      return kids;
+    });
+    this.trailer(front, sheets);
+    return { pages: totalPages, records: this.records, reused: this.reused, reusedFront: this.reusedFront };
+  }
+
+  /** Close the file (written or not) and the last dossier read from. */
+  close(): void {
+    try {
+      this.sink.close();
+    } finally {
+      if (this.old !== null) closeSync(this.old);
+    }
+  }
+
+  /** Write one part, first page pageNo + 1: copied from the previous dossier if nothing about it moved. */
+  private place(part: DossierPart, isFront: boolean, pageNo: number): number[] {
+    const { sink, old, reuse } = this;
+    const name = recordName(part, isFront);
+    const rec = name !== undefined ? reuse?.records.get(name) : undefined;
+    const base = sink.size;
+    const start = sink.offset;
+    const partLinks = isFront ? this.links : '';
+    let kids: number[];
+    if (old !== null && rec && rec.key === part.key && rec.links === partLinks && rec.base === base && rec.pageOffset === pageNo && rec.total === this.totalPages && rec.kids.length === part.pages) {
+      const bytes = Buffer.allocUnsafe(rec.end - rec.start);
+      let got = 0;
+      while (got < bytes.length) {
+        const n = readSync(old, bytes, got, bytes.length - got, rec.start + got);
+        if (n === 0) throw new Error(`internal error: ${reuse!.path} is shorter than its cache says`);
+        got += n;
+      }
+      for (let k = 0; k < rec.count; k++) sink.offsets[sink.allocate()] = start + rec.rel[k];
+      sink.write(bytes);
+      kids = rec.kids;
+      if (isFront) this.reusedFront++;
+      else this.reused++;
+    } else kids = this.copyPart(part, pageNo, isFront);
+    if (name !== undefined)
+      this.records[name] = {
+        key: part.key!,
+        links: partLinks,
+        base,
+        count: sink.size - base,
+        pageOffset: pageNo,
+        total: this.totalPages,
+        start,
+        end: sink.offset,
+        rel: sink.offsets.slice(base, sink.size).map((o) => o - start),
+        kids,
+      };
+    return kids;
+  }
 
   /** Copy one part's objects, renumbered, with its pages stamped from page pageOffset + 1; returns its page objects. */
-  function copyPart(part: DossierPart, pageOffset: number, isFront: boolean): number[] {
+  private copyPart(part: DossierPart, pageOffset: number, isFront: boolean): number[] {
+    const { sink, stamp, meta, sheetFiles, pagesNum, fontNum, saveNum, restoreNum, totalPages } = this;
     const pdf = readPdf(readFileSync(part.path));
     if (pdf.pages.length !== part.pages) throw new Error(`internal error: ${part.path} has ${pdf.pages.length} pages, ${part.pages} expected`);
     const skip = new Set<number>([pdf.catalog, ...pdf.pageTreeNodes]);
@@ -367,32 +435,39 @@ function writeParts(sink: PdfSink, front: DossierPart[], sheets: DossierPart[], 
     return pageObjects;
   }
 
-  sink.object(pagesNum, `<< /Type /Pages /Kids [${kids.map((k) => `${k} 0 R`).join(' ')}] /Count ${kids.length} >>`);
-  if (outline) {
-    const f = front.length;
-    writeOutline(sink, outlinesNum, [
-      ...(f ? [{ title: meta.summaryTitle, page: firstPages[0], children: [] }] : []),
-      ...(sheets.length ? [{ title: meta.sheetsTitle, page: firstPages[f], children: sheets.map((s, i) => ({ title: s.title, page: firstPages[f + i], children: [] })) }] : []),
-    ]);
-    sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R /Outlines ${outlinesNum} 0 R /PageMode /UseOutlines >>`);
-  } else sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R >>`);
-  const date = pdfDate(meta.date);
-  sink.object(infoNum, `<< /Title ${textString(meta.title)} /Subject ${textString(meta.subject)} /Creator (faultsheet) /Producer (faultsheet) /CreationDate ${date} /ModDate ${date} >>`);
 
-  // a front part's file is a cache name (it changes with the tool): not part of the document's id
-  const id = createHash('md5')
-    .update(JSON.stringify({ meta: { ...meta, date: meta.date.toISOString() }, parts: parts.map((p, i) => [p.title, p.pages, i < front.length ? '' : (p.file ?? '')]) }))
-    .digest('hex');
-  const xrefAt = sink.offset;
-  let xref = `xref\n0 ${sink.size}\n0000000000 65535 f \n`;
-  for (let n = 1; n < sink.size; n++) {
-    const at = sink.offsets[n];
-    if (at === undefined || at < 0) throw new Error(`internal error: dossier object ${n} was not written`);
-    xref += `${String(at).padStart(10, '0')} 00000 n \n`;
+  /** The page tree, the outline, the catalog, the document information and the cross-reference table. */
+  private trailer(front: readonly DossierPart[], sheets: readonly DossierPart[]): void {
+    const { sink, meta, pagesNum, catalogNum, outlinesNum, infoNum } = this;
+    const outline = meta.outline !== false;
+    const kids = [...this.frontKids.flat(), ...this.sheetKids.flat()];
+    const parts = [...front, ...sheets];
+    sink.object(pagesNum, `<< /Type /Pages /Kids [${kids.map((k) => `${k} 0 R`).join(' ')}] /Count ${kids.length} >>`);
+    if (outline) {
+      const f = front.length;
+      writeOutline(sink, outlinesNum, [
+        ...(f ? [{ title: meta.summaryTitle, page: this.frontKids[0][0], children: [] }] : []),
+        ...(sheets.length ? [{ title: meta.sheetsTitle, page: this.sheetKids[0][0], children: sheets.map((s, i) => ({ title: s.title, page: this.sheetKids[i][0], children: [] })) }] : []),
+      ]);
+      sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R /Outlines ${outlinesNum} 0 R /PageMode /UseOutlines >>`);
+    } else sink.object(catalogNum, `<< /Type /Catalog /Pages ${pagesNum} 0 R >>`);
+    const date = pdfDate(meta.date);
+    sink.object(infoNum, `<< /Title ${textString(meta.title)} /Subject ${textString(meta.subject)} /Creator (faultsheet) /Producer (faultsheet) /CreationDate ${date} /ModDate ${date} >>`);
+
+    // a front part's file is a cache name (it changes with the tool): not part of the document's id
+    const id = createHash('md5')
+      .update(JSON.stringify({ meta: { ...meta, date: meta.date.toISOString() }, parts: parts.map((p, i) => [p.title, p.pages, i < front.length ? '' : (p.file ?? '')]) }))
+      .digest('hex');
+    const xrefAt = sink.offset;
+    let xref = `xref\n0 ${sink.size}\n0000000000 65535 f \n`;
+    for (let n = 1; n < sink.size; n++) {
+      const at = sink.offsets[n];
+      if (at === undefined || at < 0) throw new Error(`internal error: dossier object ${n} was not written`);
+      xref += `${String(at).padStart(10, '0')} 00000 n \n`;
+    }
+    sink.write(xref);
+    sink.write(`trailer\n<< /Size ${sink.size} /Root ${catalogNum} 0 R /Info ${infoNum} 0 R /ID [<${id}> <${id}>] >>\nstartxref\n${xrefAt}\n%%EOF\n`);
   }
-  sink.write(xref);
-  sink.write(`trailer\n<< /Size ${sink.size} /Root ${catalogNum} 0 R /Info ${infoNum} 0 R /ID [<${id}> <${id}>] >>\nstartxref\n${xrefAt}\n%%EOF\n`);
-  return { pages: totalPages, records, reused, reusedFront };
 }
 
 /** Add the stamp's font to a resource dictionary (once). */
