@@ -239,7 +239,6 @@ async function solveAndBuild(io: CliIo, projectDir: string, outDir: string, opts
   const project = await load(io, projectDir, parsed);
   const result = solveProject(project);
   io.signal?.throwIfAborted();
-  const doc = resultsDocument(project, result);
   const showBar = Boolean(io.stdout.isTTY) && !opts.quiet;
   const bar = showBar
     ? new cliProgress.SingleBar(
@@ -256,7 +255,8 @@ async function solveAndBuild(io: CliIo, projectDir: string, outDir: string, opts
   const { buildDossier, OutputDirError, OutputPlanError, TemplateError } = await import('./report/build.js');
   let kept = 0;
   try {
-    await buildDossier(project, result, doc, outDir, {
+    // results.json's document is made once the first sheets are on their way to the workers
+    await buildDossier(project, result, () => resultsDocument(project, result), outDir, {
       onPlan: (render, unchanged) => {
         kept = unchanged;
         bar?.start(render, 0);

@@ -31,6 +31,8 @@ export interface Staging {
   pathOf(name: string): string;
   /** Size and modification time of a file already staged. */
   stat(name: string): Promise<import('node:fs').Stats>;
+  /** Take back a file staged so far (to write it again). */
+  remove(name: string): Promise<void>;
   /** Swap the staged folder into OUT. */
   commit(): Promise<void>;
   /** Remove the staged folder; OUT is untouched. */
@@ -131,6 +133,9 @@ async function open(outDir: string): Promise<Staging> {
     },
     stat(name) {
       return stat(target(name));
+    },
+    remove(name) {
+      return rm(target(name));
     },
     async commit() {
       if (done) throw new Error('internal error: staging already committed or discarded');

@@ -9,7 +9,7 @@ import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { openStaging } from '../io/write.js';
 import { CACHE_DIR, MANIFEST_FILE, cachedSummaryPart, emptyManifest, previousJoined, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
-import { writeDossier } from './dossier.js';
+import { DossierWriter, writeDossier, type DossierMeta, type DossierPart } from './dossier.js';
 import { pdfPageCount } from './pdf-file.js';
 import { DOSSIER_FILE, RESULTS_FILE, SUMMARY_FILE, planOutputs } from './plan.js';
 import { POOL_FROM, startSheetPool, workerCount, type SheetPool } from './pool.js';
@@ -76,7 +76,11 @@ export interface BuildReport {
   dossierReused: number;
 }
 
-/** Write the dossier of `project` into `outDir`. */
+/**
+ * Write the dossier of `project` into `outDir`, with results.json holding `resultsJson`: the
+ * document, or a function that makes it (called once the sheets are under way, off the path to
+ * the first sheet).
+ */
 export async function buildDossier(project: Project, result: ProjectResult, resultsJson: unknown, outDir: string, opts: BuildOptions = {}): Promise<BuildReport> {
   const clock = phaseClock();
   const plan = planOutputs(project, result); // collisions fail here, before anything is written
@@ -87,6 +91,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
   const staging = await openStaging(outDir);
   let stopping: Promise<void> | undefined; // the workers' ending, awaited before the build returns
   let later: SheetPool | undefined; // workers to stop once the build is done
+  let earlyDossier: DossierWriter | undefined; // begun while the sheets render
   try {
     const total = result.circuits.length;
     const projectPrint = projectFingerprint(project, templates);
@@ -161,6 +166,33 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     opts.onPlan?.(toRender.length, total - toRender.length);
     if (!rendering) signal?.throwIfAborted(); // (once sheets are rendering, below, after they stop)
 
+    const labels = templates.labels('summary/labels.hbs');
+    const dossierMeta: DossierMeta = {
+      title: `${unmark(project.meta.name)} — ${labels['cover.kicker']}`,
+      subject: labels['info.subject'],
+      date: projectDate(project.meta.date),
+      summaryTitle: labels['dossier.summary'],
+      sheetsTitle: labels['dossier.sheets'],
+      pageLabel: labels['dossier.page'],
+    };
+    /** The dossier's sheets, with these page counts. */
+    const sheetParts = (sheetPages: number[]): DossierPart[] =>
+      result.circuits.map((cr, i) => ({
+        path: staging.pathOf(plan.sheets[i].file),
+        pages: sheetPages[i],
+        title: cr.description ? `${unmark(cr.id)} — ${unmark(cr.description)}` : unmark(cr.id),
+        file: plan.sheets[i].file,
+        key: keys[i],
+      }));
+    let prewriting: Promise<void | null> | undefined;
+    // results.json and the cache files depend on nothing rendered: written while the sheets render
+    let extras: Promise<void> | undefined;
+    const writeExtras = (): Promise<void> =>
+      (extras ??= (async () => {
+        const doc: unknown = typeof resultsJson === 'function' ? (resultsJson as () => unknown)() : resultsJson;
+        await staging.write(RESULTS_FILE, JSON.stringify(doc, null, 2) + '\n');
+        for (const extra of opts.cacheFiles ?? []) await staging.write(`${CACHE_DIR}/${extra.name}`, extra.bytes());
+      })());
     let summary: LaidOutSummary | null = null;
     const made = new Map<string, SummaryPart>(); // summary parts laid out by this build
     let renderer: Renderer | undefined = opts.renderer; // pdfmake and Chart.js in this thread, loaded when first needed
@@ -188,8 +220,20 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       clock(`plan and cache (${toRender.length} to render, ${total - toRender.length} kept)`);
       if (rendering) {
         const guess = previous && toRender.every((i) => (previous.sheets[plan.sheets[i].file]?.pages ?? 0) >= 1) ? Array.from(pages, (p, i) => p ?? previous.sheets[plan.sheets[i].file].pages) : null;
-        const early = guess && !first ? await layOutSummary(project, result, summaryCtx(guess, local.signal)).catch(fail) : null;
+        const laying = guess && !first ? layOutSummary(project, result, summaryCtx(guess, local.signal)).catch(fail) : null;
+        // While the summary's changed parts wait for the worker, the dossier's kept sheets up to the
+        // first one rendering go into it (from the last build's page counts, checked at the end).
+        const reuse = previousJoined(staging.outDir, previous, 'dossier');
+        if (guess && reuse && previous!.summaryPages >= 1 && !first) {
+          const guessed = sheetParts(guess);
+          earlyDossier = new DossierWriter(staging.pathOf(DOSSIER_FILE), guessed, previous!.summaryPages, dossierMeta, reuse);
+          prewriting = prewrite(earlyDossier, guessed, Math.min(...toRender), () => first !== null).catch(fail);
+        }
+        const extrasWritten = first ? null : writeExtras().catch(fail);
+        const early = await laying;
         await rendering;
+        await prewriting;
+        await extrasWritten;
         if (early && guess!.every((p, i) => p === pages[i])) summary = early;
       } else
         for (const i of toRender) {
@@ -214,7 +258,6 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     clock(`sheets (${threads > 0 ? `up to ${threads} worker threads` : 'main thread'})`);
     // The summary, laid out part by part (summary.ts summaryParts), each part cached like a sheet,
     // then joined into summary.pdf.
-    const labels = templates.labels('summary/labels.hbs');
     summary ??= await layOutSummary(project, result, summaryCtx(pages, signal));
     for (const part of summary.parts)
       if (part.bytes) await staging.write(`${CACHE_DIR}/${part.file}`, part.bytes);
@@ -243,32 +286,20 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     clock(`summary (${summary.laidOut} of ${summary.parts.length} parts laid out, ${joined.reused} copied from the last summary.pdf, ${summary.pages} pages)`);
     signal?.throwIfAborted();
 
-    // The previous dossier's sheets and summary parts are copied byte for byte where nothing about them moved.
-    const written = writeDossier(
-      staging.pathOf(DOSSIER_FILE),
-      summaryFiles,
-      result.circuits.map((cr, i) => ({
-        path: staging.pathOf(plan.sheets[i].file),
-        pages: pages[i],
-        title: cr.description ? `${unmark(cr.id)} — ${unmark(cr.description)}` : unmark(cr.id),
-        file: plan.sheets[i].file,
-        key: keys[i],
-      })),
-      {
-        title: `${unmark(project.meta.name)} — ${labels['cover.kicker']}`,
-        subject: labels['info.subject'],
-        date: projectDate(project.meta.date),
-        summaryTitle: labels['dossier.summary'],
-        sheetsTitle: labels['dossier.sheets'],
-        pageLabel: labels['dossier.page'],
-      },
-      previousJoined(staging.outDir, previous, 'dossier'),
-    );
+    // The previous dossier's sheets and summary parts are copied byte for byte where nothing about
+    // them moved. The file begun while the sheets rendered is finished if the page counts it was
+    // begun with held, and written again otherwise.
+    const sheetsNow = sheetParts(pages);
+    let written = earlyDossier?.finish(summaryFiles, sheetsNow) ?? null;
+    earlyDossier?.close();
+    if (!written) {
+      if (earlyDossier) await staging.remove(DOSSIER_FILE);
+      written = writeDossier(staging.pathOf(DOSSIER_FILE), summaryFiles, sheetsNow, dossierMeta, previousJoined(staging.outDir, previous, 'dossier'));
+    }
     const dossierStat = await staging.stat(DOSSIER_FILE);
     manifest.dossier = { size: dossierStat.size, mtimeMs: dossierStat.mtimeMs, records: written.records };
     clock(`dossier (${written.reused} of ${result.circuits.length} sheets and ${written.reusedFront} of ${summary.parts.length} summary parts copied from the last one)`);
-    await staging.write(RESULTS_FILE, JSON.stringify(resultsJson, null, 2) + '\n');
-    for (const extra of opts.cacheFiles ?? []) await staging.write(`${CACHE_DIR}/${extra.name}`, extra.bytes());
+    await writeExtras();
     await staging.write(`${CACHE_DIR}/${MANIFEST_FILE}`, JSON.stringify(manifest) + '\n');
     signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
     await staging.commit();
@@ -281,6 +312,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
       dossierReused: written.reused,
     };
   } catch (err) {
+    earlyDossier?.close();
     await staging.discard();
     throw err;
   } finally {
@@ -353,4 +385,17 @@ async function layOutSummary(
     total = offset;
   }
   throw new Error('internal error: the summary page count does not settle');
+}
+
+/**
+ * Write the dossier's sheets up to sheets[end - 1], a few at a time so that a worker's answer is
+ * taken as it comes (the worker then goes on with the summary's parts), until `stop` says the
+ * build failed.
+ */
+async function prewrite(writer: DossierWriter, sheets: DossierPart[], end: number, stop: () => boolean): Promise<void> {
+  for (let upTo = 0; upTo < end && !stop(); ) {
+    upTo = Math.min(end, upTo + 50);
+    writer.advance(sheets, upTo);
+    await new Promise<void>((go) => setImmediate(go));
+  }
 }

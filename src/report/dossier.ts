@@ -233,6 +233,7 @@ export class DossierWriter {
   private reusedFront = 0;
   private links = '';
   private pageNo: number; // pages before the next sheet
+  private closed = false;
 
   /** Open `outPath` (a new file) for a dossier of `sheets` after `frontPages` pages of front parts. */
   constructor(
@@ -312,8 +313,10 @@ export class DossierWriter {
     return { pages: totalPages, records: this.records, reused: this.reused, reusedFront: this.reusedFront };
   }
 
-  /** Close the file (written or not) and the last dossier read from. */
+  /** Close the file (written or not) and the last dossier read from; again, nothing. */
   close(): void {
+    if (this.closed) return;
+    this.closed = true;
     try {
       this.sink.close();
     } finally {
