@@ -17,13 +17,14 @@ afterAll(async () => {
   await tmp.remove();
 });
 
-function build(out: string, ...extra: string[]): { code: number | null; stderr: string } {
+/** A build's exit code, the signal that ended it if one did, and its stderr (all shown when an assertion on them fails). */
+function build(out: string, ...extra: string[]): { code: number | null; signal: NodeJS.Signals | null; stderr: string } {
   const r = spawnSync(process.execPath, [binPath, 'build', 'p', '--out', out, '--quiet', '--jobs', '2', ...extra], {
     cwd: tmp.dir,
     env: { ...process.env, FAULTSHEET_TIMINGS: '1' },
     encoding: 'utf8',
   });
-  return { code: r.status, stderr: r.stderr };
+  return { code: r.status, signal: r.signal, stderr: r.stderr };
 }
 
 const files = (dir: string): Record<string, string> => builtFiles(path.join(tmp.dir, dir));
@@ -33,25 +34,25 @@ const pages = (pdf: string): number => Number(/\/Type \/Pages[^>]*\/Count (\d+)/
 
 describe('a one-edit rebuild with the sheet on a worker thread', () => {
   it('gives the bytes of a full build, whether or not the edit changes the sheet\'s page count', async () => {
-    expect(build('out').code).toBe(0);
+    expect(build('out')).toMatchObject({ code: 0 });
     const sheetPages = pages('out/DP2-1.pdf');
 
     // an edit that keeps the page count: the summary laid out beside the sheet is the one kept
     writeFileSync(circuit(), readFileSync(circuit(), 'utf8').replace('length: 150 ft', 'length: 160 ft'));
     const edit = build('out');
-    expect(edit.code).toBe(0);
+    expect(edit).toMatchObject({ code: 0 });
     expect(edit.stderr).toMatch(/plan and cache \(1 to render, \d+ kept\)/);
     expect(edit.stderr).toMatch(/sheets \(up to \d+ worker threads\)/);
     expect(pages('out/DP2-1.pdf')).toBe(sheetPages);
-    expect(build('full', '--force').code).toBe(0);
+    expect(build('full', '--force')).toMatchObject({ code: 0 });
     expect(files('out')).toEqual(files('full'));
 
     // an edit that adds pages to the sheet (forty assumptions): every later sheet moves in the dossier
     const many = Array.from({ length: 40 }, (_, i) => `  - Assumption ${i + 1} of a long list, written to make the sheet longer than it was.`).join('\n');
     writeFileSync(circuit(), `${readFileSync(circuit(), 'utf8')}\nassumptions:\n${many}\n`);
-    expect(build('out').code).toBe(0);
+    expect(build('out')).toMatchObject({ code: 0 });
     expect(pages('out/DP2-1.pdf')).toBeGreaterThan(sheetPages);
-    expect(build('full2', '--force').code).toBe(0);
+    expect(build('full2', '--force')).toMatchObject({ code: 0 });
     expect(files('out')).toEqual(files('full2'));
 
     // the parse cache (model/parse-cache.ts) damaged in OUT: read as empty, the same bytes again
@@ -60,8 +61,8 @@ describe('a one-edit rebuild with the sheet on a worker thread', () => {
     expect(cache.length).toBeGreaterThan(100);
     writeFileSync(parsed, cache.subarray(0, cache.length >> 1));
     writeFileSync(circuit(), readFileSync(circuit(), 'utf8').replace('length: 160 ft', 'length: 170 ft'));
-    expect(build('out').code).toBe(0);
-    expect(build('full3', '--force').code).toBe(0);
+    expect(build('out')).toMatchObject({ code: 0 });
+    expect(build('full3', '--force')).toMatchObject({ code: 0 });
     expect(files('out')).toEqual(files('full3'));
     expect(readFileSync(parsed).length).toBeGreaterThan(100); // written whole again
 
@@ -70,9 +71,9 @@ describe('a one-edit rebuild with the sheet on a worker thread', () => {
     const feeder = path.join(tmp.dir, 'p', 'circuits', 'MDB-1.yaml');
     writeFileSync(feeder, readFileSync(feeder, 'utf8').replace('length: 160 ft', 'length: 180 ft'));
     const upstream = build('out');
-    expect(upstream.code).toBe(0);
+    expect(upstream).toMatchObject({ code: 0 });
     expect(upstream.stderr).toMatch(/plan and cache \(5 to render, \d+ kept\)/);
-    expect(build('full4', '--force').code).toBe(0);
+    expect(build('full4', '--force')).toMatchObject({ code: 0 });
     expect(files('out')).toEqual(files('full4'));
   }, 180_000);
 });
