@@ -11,6 +11,7 @@ import { demoProjectDirs, packageVersion } from './demo.js';
 import type { ParseCache } from './model/parse-cache.js';
 import type { SheetPool } from './report/pool.js';
 import { CACHE_FOLDER } from './io/write.js';
+import { SHAPED_FILE } from './report/shaped-words.js';
 
 // The engine (the loader with its units and schemas, the solver) and the report are imported by
 // the commands that use them: `build` starts its worker threads first, so they load the report on
@@ -224,7 +225,9 @@ async function buildOne(io: CliIo, projectDir: string, outDir: string, opts: { q
   // reads and solves the project (report/pool.ts). --jobs 1 renders in this thread.
   const { earlyThreads, startSheetPool } = await import('./report/pool.js');
   const threads = earlyThreads(opts.jobs);
-  const pool = threads > 0 ? await startSheetPool(threads) : undefined;
+  // each worker starts with the words the last build into OUT shaped (report/shaped-words.ts)
+  const shapedWords = opts.force ? undefined : path.join(outDir, CACHE_FOLDER, SHAPED_FILE);
+  const pool = threads > 0 ? await startSheetPool(threads, { shapedWords }) : undefined;
   try {
     return await solveAndBuild(io, projectDir, outDir, opts, started, pool);
   } finally {

@@ -18,7 +18,7 @@ export class OutputDirError extends Error {
 const OWN_FILE = /^(?:[A-Za-z0-9._-]+\.pdf|results\.json)$/;
 /** The build cache's folder in OUT (src/report/cache.ts), and the names it holds. */
 export const CACHE_FOLDER = '.faultsheet-cache';
-const CACHE_FILE = /^(?:manifest\.json|parsed\.bin|summary-[0-9a-f]{16}\.pdf)$/;
+const CACHE_FILE = /^(?:manifest\.json|parsed\.bin|shaped\.bin|summary-[0-9a-f]{16}\.pdf)$/;
 
 export interface Staging {
   readonly dir: string;

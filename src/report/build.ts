@@ -3,11 +3,12 @@
 // staging folder beside OUT; write results.json and the cache manifest, then swap the folder into
 // place (src/io/write.ts). Any failure or interruption before the swap leaves OUT exactly as it was.
 
+import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import type { Content } from 'pdfmake/interfaces.js';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
-import { openStaging } from '../io/write.js';
+import { openStaging, type Staging } from '../io/write.js';
 import { CACHE_DIR, MANIFEST_FILE, cachedSummaryPart, emptyManifest, previousJoined, projectFingerprint, readManifest, reusable, sheetKey, type Manifest } from './cache.js';
 import { DossierWriter, writeDossier, type DossierMeta, type DossierPart } from './dossier.js';
 import { pdfPageCount } from './pdf-file.js';
@@ -21,6 +22,7 @@ import type { TemplateSet } from './templates.js';
 import { stableJson } from './fingerprint.js';
 import { createHash } from 'node:crypto';
 import { unmark } from './typeset.js';
+import { SHAPED_FILE, mergeShapedWords, readShapedWords, shapedWordsBytes } from './shaped-words.js';
 
 export { OutputPlanError, sheetFileName, planOutputs } from './plan.js';
 export { OutputDirError } from '../io/write.js';
@@ -199,7 +201,8 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     const ownRenderer = async (): Promise<Renderer> => (renderer ??= (await import('./render.js')).defaultRenderer());
     const threads = opts.renderer || toRender.length === 0 ? 0 : opts.pool ? opts.pool.maxThreads : workerCount(toRender.length, opts.jobs);
     if (threads === 0) stopping = opts.pool?.destroy(); // not needed: nothing to render, or rendering here
-    const pool = threads > 0 ? (opts.pool ?? (await startSheetPool(threads))) : null;
+    const shapedFile = path.join(staging.outDir, CACHE_DIR, SHAPED_FILE);
+    const pool = threads > 0 ? (opts.pool ?? (await startSheetPool(threads, { shapedWords: opts.force ? undefined : shapedFile }))) : null;
     // After a sheet or two the worker that rendered them, its code warm, lays out the summary's
     // changed parts as well (this thread then never loads the layout code); after a batch the
     // workers are stopped and the parts are laid out here.
@@ -300,6 +303,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     manifest.dossier = { size: dossierStat.size, mtimeMs: dossierStat.mtimeMs, records: written.records };
     clock(`dossier (${written.reused} of ${result.circuits.length} sheets and ${written.reusedFront} of ${summary.parts.length} summary parts copied from the last one)`);
     await writeExtras();
+    await keepShapedWords(staging, pool, shapedFile, opts.force === true);
     await staging.write(`${CACHE_DIR}/${MANIFEST_FILE}`, JSON.stringify(manifest) + '\n');
     signal?.throwIfAborted(); // the last point at which an interruption is honoured: the swap is not split
     await staging.commit();
@@ -398,4 +402,27 @@ async function prewrite(writer: DossierWriter, sheets: DossierPart[], end: numbe
     writer.advance(sheets, upTo);
     await new Promise<void>((go) => setImmediate(go));
   }
+}
+
+/**
+ * Keep the words the workers shaped, after the last build's (read unless --force), for the next
+ * build's workers (shaped-words.ts); with none shaped, the last build's file as it was.
+ */
+async function keepShapedWords(staging: Staging, pool: SheetPool | null, previousFile: string, force: boolean): Promise<void> {
+  const name = `${CACHE_DIR}/${SHAPED_FILE}`;
+  const fresh = pool?.shapedWords() ?? [];
+  const before = force ? null : existsSync(previousFile) ? previousFile : null;
+  if (fresh.length === 0) {
+    if (before) await staging.adopt(name, before);
+    return;
+  }
+  let previous = null;
+  if (before)
+    try {
+      previous = readShapedWords(readFileSync(before));
+    } catch {
+      previous = null; // unreadable: the workers' words alone
+    }
+  const merged = mergeShapedWords(previous, fresh);
+  if (merged) await staging.write(name, shapedWordsBytes(merged));
 }

@@ -100,7 +100,7 @@ let toolPrint: string | null = null;
  * The tool's fingerprint: its version, the versions of the libraries that draw, and the compiled
  * code of the report itself (so a changed drawing routine renders again even without a new version).
  */
-function toolFingerprint(): string {
+export function toolFingerprint(): string {
   if (toolPrint) return toolPrint;
   const h = createHash('sha256');
   const here = path.dirname(fileURLToPath(import.meta.url));

@@ -15,7 +15,8 @@ import { serialize } from 'node:v8';
 import type { Project } from '../model/types.js';
 import type { ProjectResult } from '../calc/types.js';
 import { TemplateError, type TemplateSet } from './templates.js';
-import type { PartDone, PoolData, SheetDone, SheetTask, SummaryPartTask, TemplateFailure } from './sheet-worker.js';
+import type { PartDone, PoolData, PoolWorkerData, SheetDone, SheetTask, SummaryPartTask, TemplateFailure } from './sheet-worker.js';
+import type { ShapedWords } from './shaped-words.js';
 
 /** Without a pool started early, fewer sheets than this render in the main thread (a worker's start-up costs about half a second). */
 export const POOL_FROM = 6;
@@ -79,6 +80,8 @@ export interface SheetPool {
    * while a `render` of the same build has not returned; its project and templates are used.
    */
   layOut(part: SummaryPartTask['part'], signal?: AbortSignal): Promise<Buffer>;
+  /** The words the workers shaped for the first time, task by task (shaped-words.ts), so far. */
+  shapedWords(): ShapedWords[];
   destroy(): Promise<void>;
 }
 
@@ -108,9 +111,10 @@ let generation = 0;
 
 /**
  * Start a pool of up to `maxThreads` workers. One worker starts at once (it loads the report
- * modules); more start as tasks queue up.
+ * modules); more start as tasks queue up. `shapedWords` names the last build's shaped words
+ * (OUT/.faultsheet-cache/shaped.bin), which each worker starts with.
  */
-export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
+export async function startSheetPool(maxThreads: number, opts: { shapedWords?: string } = {}): Promise<SheetPool> {
   // The canvas addon must stay loaded for the life of the process: when a worker that loaded it
   // first exits, its teardown unloads the library under the other threads (a segmentation fault).
   // Loading it here, in the main thread, before any worker, keeps it in memory until the process ends.
@@ -123,7 +127,13 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
     idleTimeout: 60_000,
     // a larger young generation: a sheet allocates a lot of short-lived objects (fewer scavenges)
     resourceLimits: { maxYoungGenerationSizeMb: 96 },
+    workerData: { shapedWords: opts.shapedWords } satisfies PoolWorkerData,
   });
+  const shaped: ShapedWords[] = [];
+  const keep = <T extends SheetDone | PartDone>(done: T): T => {
+    if (done.shaped) shaped.push(done.shaped);
+    return done;
+  };
   let destroyed: Promise<void> | null = null;
   const gate = new Gate();
   let current: SheetTask['data'] | null = null; // the project of the render under way, for layOut
@@ -136,7 +146,7 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
         signal?.throwIfAborted(); // a build that stopped while this part waited for a lane
         return pool.run({ part, data });
       });
-      const bytes = answer<PartDone>(done, 'part').part;
+      const bytes = keep(answer<PartDone>(done, 'part')).part;
       return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     },
     async render(project, result, indices, templates, onSheet, signal, more) {
@@ -176,7 +186,7 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
             // The solver samples chart series on first use (a non-enumerable getter, which a structured
             // clone would drop): take them now so the worker gets plain data.
             const task: SheetTask = { index, count, circuit: { ...cr, charts: cr.charts }, input, device: deviceOf.get(cr.device), data };
-            const done = answer<SheetDone>(await gate.run(() => pool.run(task)), 'sheet');
+            const done = keep(answer<SheetDone>(await gate.run(() => pool.run(task)), 'sheet'));
             if (stopped()) return;
             // the sheets are taken one at a time, in completion order, while the worker goes on
             chain = chain.then(() => (stopped() ? undefined : onSheet(done))).catch((err: unknown) => void (first ??= { err }));
@@ -205,6 +215,7 @@ export async function startSheetPool(maxThreads: number): Promise<SheetPool> {
       if (signal?.aborted) throw signal.reason ?? new Error('aborted');
       if (first) throw (first as { err: unknown }).err;
     },
+    shapedWords: () => shaped,
     destroy() {
       destroyed ??= pool.destroy();
       return destroyed;

@@ -9,7 +9,10 @@ import type { Chart, Plugin } from 'chart.js';
 import { FONT, TABLE_LAYOUTS } from './layout.js';
 import { indexedPng } from './png.js';
 import { CHART_FONT, CHART_HEIGHT, CHART_WIDTH, type MarksOptions, type SheetChart } from './charts.js';
-import { fontFiles, readFonts } from './assets.js';
+import { fontFiles, readFonts, type FontFace } from './assets.js';
+import { toolFingerprint } from './cache.js';
+import { GLYPH_INTS, type ShapedWords } from './shaped-words.js';
+import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 
@@ -105,6 +108,24 @@ export function defaultRenderer(): Renderer {
   return shared;
 }
 
+/** The parts of fontkit used here. */
+interface FontkitModule {
+  create: (buf: Buffer, name?: string) => unknown;
+  __faultsheetCache?: Map<Buffer, unknown>;
+}
+
+/** A parsed font as fontkit gives it (the few members read here; _cmapProcessor is fontkit's own). */
+interface FontkitFont {
+  numGlyphs: number;
+  unitsPerEm: number;
+  getGlyph(id: number, codePoints?: number[]): { id: number; advanceWidth: number; codePoints: number[] };
+  characterSet: number[];
+  _cmapProcessor: { lookup(codePoint: number): number };
+}
+
+/** The process's parsed font of a font file (set by reuseParsedFonts). */
+let parsedFont: ((buf: Buffer) => FontkitFont) | null = null;
+
 /**
  * pdfkit parses a font file anew for every document (a fifth of a sheet's time). Our four font
  * buffers never change, so their parsed fontkit fonts are kept and reused; each document still
@@ -113,7 +134,8 @@ export function defaultRenderer(): Renderer {
 function reuseParsedFonts(buffers: Buffer[]): void {
   const require = createRequire(import.meta.url);
   const pdfkitMain = require.resolve('@foliojs-fork/pdfkit', { paths: [path.dirname(require.resolve('pdfmake'))] });
-  const fontkit = createRequire(pdfkitMain)('@foliojs-fork/fontkit') as { create: (buf: Buffer, name?: string) => unknown; __faultsheetCache?: Map<Buffer, unknown> };
+  const fontkit = createRequire(pdfkitMain)('@foliojs-fork/fontkit') as FontkitModule;
+  parsedFont = (buf) => fontkit.create(buf) as FontkitFont;
   if (fontkit.__faultsheetCache) {
     for (const b of buffers) fontkit.__faultsheetCache.set(b, undefined);
     return;
@@ -148,23 +170,171 @@ function shareLayoutCache(printer: PdfPrinter): void {
   const proto = probe._font ? (Object.getPrototypeOf(probe._font) as Record<string, unknown>) : null;
   probe.end();
   if (!proto || typeof proto.layoutRun !== 'function' || typeof proto.layoutCached !== 'function' || proto.__faultsheetShared) return;
-  const shared = new WeakMap<object, Map<string, unknown>>();
   proto.__faultsheetShared = true;
   proto.layoutCached = function (this: { font: object; layoutRun(text: string): unknown }, text: string): unknown {
-    let cache = shared.get(this.font);
-    if (!cache) shared.set(this.font, (cache = new Map()));
+    let cache = sharedRuns.get(this.font);
+    if (!cache) sharedRuns.set(this.font, (cache = new Map()));
     let run = cache.get(text);
     if (run === undefined) {
       if (cache.size >= SHARED_LAYOUTS_MAX) cache.clear(); // bounded memory on a very long build
       run = this.layoutRun(text);
       cache.set(text, run);
+      if (freshRuns.length < FRESH_MAX) freshRuns.push({ font: this.font, text, run: run as PdfkitRun });
     }
     return run;
   };
 }
 
+/** The shared cache of shapedLayoutCache: per parsed font, each word's run. */
+const sharedRuns = new WeakMap<object, Map<string, unknown>>();
+
+/** A shaped run as pdfkit's font reads it (layout, encode): glyph ids, widths and meanings, positions. */
+export interface PdfkitRun {
+  glyphs: Array<{ id: number; advanceWidth: number; codePoints: number[] }>;
+  positions: PdfkitPosition[];
+  advanceWidth: number;
+}
+
+/** A glyph's position as pdfkit keeps it: fontkit's, scaled to its 1000-unit em, and the glyph's advance width. */
+interface PdfkitPosition {
+  xAdvance: number;
+  yAdvance: number;
+  xOffset: number;
+  yOffset: number;
+  advanceWidth: number;
+}
+
+/** Words shaped since takeShapedWords last looked (at most FRESH_MAX, for shaped.bin). */
+const freshRuns: Array<{ font: object; text: string; run: PdfkitRun }> = [];
+const FRESH_MAX = 20_000;
+
+/** The fonts of the faces, and for each the number of code points its character map sends to each glyph. */
+let faces: Array<{ face: FontFace; font: FontkitFont; sources?: Uint16Array }> | null = null;
+let shapesKey: string | null = null;
+
+function faceFonts(): Array<{ face: FontFace; font: FontkitFont; sources?: Uint16Array }> {
+  if (faces) return faces;
+  if (!parsedFont || !faceBuffers) throw new Error('internal error: shaped words before the renderer');
+  const make = parsedFont;
+  faces = (Object.entries(faceBuffers) as Array<[FontFace, Buffer]>).map(([face, buf]) => ({ face, font: make(buf) }));
+  return faces;
+}
+
+/** What the shapes depend on: the tool (its code, pdfkit's and fontkit's through pdfmake's version) and the font files. */
+function shapedKey(): string {
+  if (shapesKey) return shapesKey;
+  const h = createHash('sha256').update(toolFingerprint());
+  for (const [face, buf] of Object.entries(faceBuffers ?? {})) h.update(face).update(buf);
+  return (shapesKey = h.digest('hex'));
+}
+
+/** How many code points the font's character map sends to each glyph. */
+function glyphSources(entry: { font: FontkitFont; sources?: Uint16Array }): Uint16Array {
+  if (entry.sources) return entry.sources;
+  const counts = new Uint16Array(entry.font.numGlyphs);
+  for (const cp of entry.font.characterSet) {
+    const gid = entry.font._cmapProcessor.lookup(cp);
+    if (gid > 0 && gid < counts.length && counts[gid] < 65535) counts[gid]++;
+  }
+  return (entry.sources = counts);
+}
+
+/** The word's code points. */
+const codePointsOf = (text: string): number[] => Array.from(text, (ch) => ch.codePointAt(0)!);
+
+/**
+ * True when shaping `text` substituted no glyph (shaped-words.ts): glyph i is the glyph the
+ * character map gives code point i (`lookup`), no other code point maps to it (`sources`, code
+ * points a glyph by id), and it stands for that code point alone.
+ */
+export function plainRun(text: string, run: PdfkitRun, lookup: (codePoint: number) => number, sources: ArrayLike<number>): boolean {
+  const cps = codePointsOf(text);
+  return (
+    run.glyphs.length === cps.length &&
+    run.positions.length === cps.length &&
+    run.glyphs.every((g, i) => g.id > 0 && g.id === lookup(cps[i]) && sources[g.id] === 1 && g.codePoints.length === 1 && g.codePoints[0] === cps[i])
+  );
+}
+
+/**
+ * The words this process shaped since the last call that a later process may take as they are
+ * (shaped-words.ts: no glyph substituted), or null if none.
+ */
+export function takeShapedWords(): ShapedWords | null {
+  if (freshRuns.length === 0) return null;
+  const known = faceFonts();
+  const texts: Record<string, string[]> = {};
+  const ints: Record<string, number[]> = {};
+  for (const { font, text, run } of freshRuns.splice(0)) {
+    const entry = known.find((f) => f.font === font);
+    if (!entry) continue;
+    if (!plainRun(text, run, (cp) => entry.font._cmapProcessor.lookup(cp), glyphSources(entry))) continue;
+    // back to font units, as fontkit gave them: kept only where scaling them again gives pdfkit's numbers
+    const scale = 1000 / entry.font.unitsPerEm;
+    const units: number[] = [];
+    const exact = run.positions.every((p, i) => {
+      const u = [p.xAdvance, p.yAdvance, p.xOffset, p.yOffset].map((x) => Math.round(x / scale));
+      units.push(run.glyphs[i].id, ...u);
+      return u[0] * scale === p.xAdvance && u[1] * scale === p.yAdvance && u[2] * scale === p.xOffset && u[3] * scale === p.yOffset && Math.abs(u[0]) < 2 ** 30;
+    });
+    if (!exact) continue;
+    (texts[entry.face] ??= []).push(text);
+    (ints[entry.face] ??= []).push(...units);
+  }
+  const faces = Object.fromEntries(Object.entries(texts).map(([face, list]) => [face, { texts: list, glyphs: Int32Array.from(ints[face]) }]));
+  return Object.keys(faces).length > 0 ? { key: shapedKey(), faces } : null;
+}
+
+/**
+ * Start this process's shared word cache with `words` (shaped by an earlier process under the same
+ * key; otherwise nothing is taken), each run made as pdfkit makes one it shapes (layoutRun): the
+ * positions scaled, the glyph's advance width added, the run's advance summed in order. Each glyph
+ * is the font's own glyph object, made here for its one character as shaping would have made it:
+ * a glyph object first made by a document's subset (for its outline, with no character) would
+ * leave later documents no character for it. Returns the words taken.
+ */
+export function preloadShapedWords(words: ShapedWords): number {
+  if (words.key !== shapedKey()) return 0;
+  let taken = 0;
+  for (const entry of faceFonts()) {
+    const face = words.faces[entry.face];
+    if (!face) continue;
+    let cache = sharedRuns.get(entry.font);
+    if (!cache) sharedRuns.set(entry.font, (cache = new Map()));
+    const { font } = entry;
+    const scale = 1000 / font.unitsPerEm;
+    const g = face.glyphs;
+    let at = 0;
+    for (const text of face.texts) {
+      const cps = codePointsOf(text);
+      const start = at;
+      at += cps.length * GLYPH_INTS;
+      if (cache.has(text)) continue;
+      let fits = true;
+      for (let k = start; k < at; k += GLYPH_INTS) if (g[k] >= font.numGlyphs) fits = false;
+      if (!fits) continue;
+      const run: PdfkitRun = { glyphs: [], positions: [], advanceWidth: 0 };
+      for (let i = 0, k = start; i < cps.length; i++, k += GLYPH_INTS) {
+        const glyph = font.getGlyph(g[k], [cps[i]]);
+        run.glyphs.push(glyph);
+        run.positions.push({ xAdvance: g[k + 1] * scale, yAdvance: g[k + 2] * scale, xOffset: g[k + 3] * scale, yOffset: g[k + 4] * scale, advanceWidth: glyph.advanceWidth * scale });
+      }
+      let width = 0;
+      for (const p of run.positions) width += p.xAdvance;
+      run.advanceWidth = width;
+      cache.set(text, run);
+      taken++;
+    }
+  }
+  return taken;
+}
+
+/** The font files of the faces, as the renderer read them. */
+let faceBuffers: Record<FontFace, Buffer> | null = null;
+
 export function createRenderer(): Renderer {
   const fonts = readFonts();
+  faceBuffers ??= fonts;
   reuseParsedFonts([fonts.normal, fonts.bold, fonts.italics, fonts.bolditalics]);
   const printer = new PdfPrinter({ [FONT]: { normal: fonts.normal, bold: fonts.bold, italics: fonts.italics, bolditalics: fonts.bolditalics } });
   shareLayoutCache(printer);

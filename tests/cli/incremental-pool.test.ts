@@ -8,6 +8,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { binPath, builtFiles, demoCopy } from './run.js';
+import { readShapedWords } from '../../src/report/shaped-words.js';
 
 let tmp: { dir: string; remove: () => Promise<void> };
 beforeAll(async () => {
@@ -36,6 +37,9 @@ describe('a one-edit rebuild with the sheet on a worker thread', () => {
   it('gives the bytes of a full build, whether or not the edit changes the sheet\'s page count', async () => {
     expect(build('out')).toMatchObject({ code: 0 });
     const sheetPages = pages('out/DP2-1.pdf');
+    // the words the workers shaped, kept for the next build's workers (report/shaped-words.ts)
+    const shapedFile = path.join(tmp.dir, 'out', '.faultsheet-cache', 'shaped.bin');
+    expect(Object.keys(readShapedWords(readFileSync(shapedFile))?.faces ?? {})).toContain('normal');
 
     // an edit that keeps the page count: the summary laid out beside the sheet is the one kept
     writeFileSync(circuit(), readFileSync(circuit(), 'utf8').replace('length: 150 ft', 'length: 160 ft'));
@@ -43,6 +47,7 @@ describe('a one-edit rebuild with the sheet on a worker thread', () => {
     expect(edit).toMatchObject({ code: 0 });
     expect(edit.stderr).toMatch(/plan and cache \(1 to render, \d+ kept\)/);
     expect(edit.stderr).toMatch(/sheets \(up to \d+ worker threads\)/);
+    expect(edit.stderr).toMatch(/a worker started with [1-9]\d* shaped words/); // and its sheet's bytes are a fresh worker's (below)
     expect(pages('out/DP2-1.pdf')).toBe(sheetPages);
     expect(build('full', '--force')).toMatchObject({ code: 0 });
     expect(files('out')).toEqual(files('full'));
@@ -60,11 +65,17 @@ describe('a one-edit rebuild with the sheet on a worker thread', () => {
     const cache = readFileSync(parsed);
     expect(cache.length).toBeGreaterThan(100);
     writeFileSync(parsed, cache.subarray(0, cache.length >> 1));
+    // and so the shaped words: a worker then starts with none
+    const shaped = readFileSync(shapedFile);
+    writeFileSync(shapedFile, shaped.subarray(0, shaped.length >> 1));
     writeFileSync(circuit(), readFileSync(circuit(), 'utf8').replace('length: 160 ft', 'length: 170 ft'));
-    expect(build('out')).toMatchObject({ code: 0 });
+    const damaged = build('out');
+    expect(damaged).toMatchObject({ code: 0 });
+    expect(damaged.stderr).toMatch(/a worker started with 0 shaped words/);
     expect(build('full3', '--force')).toMatchObject({ code: 0 });
     expect(files('out')).toEqual(files('full3'));
     expect(readFileSync(parsed).length).toBeGreaterThan(100); // written whole again
+    expect(readShapedWords(readFileSync(shapedFile))).not.toBeNull();
 
     // an edit of the feeder of DP-2: its sheet starts on a worker first (its file changed), and the
     // four sheets of DP-2, changed by it, follow once their keys are known
