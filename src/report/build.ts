@@ -230,7 +230,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         if (guess && reuse && previous!.summaryPages >= 1 && !first) {
           const guessed = sheetParts(guess);
           earlyDossier = new DossierWriter(staging.pathOf(DOSSIER_FILE), guessed, previous!.summaryPages, dossierMeta, reuse);
-          prewriting = prewrite(earlyDossier, guessed, Math.min(...toRender), () => first !== null).catch(fail);
+          prewriting = prewrite(earlyDossier, guessed, Math.min(...toRender), () => first !== null || local.signal.aborted).catch(fail);
         }
         const extrasWritten = first ? null : writeExtras().catch(fail);
         const early = await laying;
@@ -394,7 +394,7 @@ async function layOutSummary(
 /**
  * Write the dossier's sheets up to sheets[end - 1], a few at a time so that a worker's answer is
  * taken as it comes (the worker then goes on with the summary's parts), until `stop` says the
- * build failed.
+ * build failed or was interrupted.
  */
 async function prewrite(writer: DossierWriter, sheets: DossierPart[], end: number, stop: () => boolean): Promise<void> {
   for (let upTo = 0; upTo < end && !stop(); ) {
