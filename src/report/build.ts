@@ -363,7 +363,7 @@ async function layOutSummary(
   // first guess: the last build's count, or, for a first build, what the parts are cut for: two
   // pages of cover and board tree, then a page a part
   let total = ctx.previous?.summaryPages && ctx.previous.summaryPages >= 1 ? ctx.previous.summaryPages : summaryParts(project, result, { templates: ctx.templates }).length + 1;
-  for (let attempt = 0; attempt < 4; attempt++) {
+  for (let attempt = 0; attempt < 5; attempt++) {
     const firstPage = new Map<string, number>();
     let next = total + 1;
     result.circuits.forEach((c, i) => {
@@ -371,9 +371,24 @@ async function layOutSummary(
       next += ctx.pages[i];
     });
     const opts = { templates: ctx.templates, dossierPages: firstPage };
+    const contents = summaryParts(project, result, opts);
+    // More or fewer parts than the last build's (a list cut into one run more or less) change the
+    // page count: counted as the last build's pages for the parts it had and one page for each
+    // new one, before any part is laid out, so that the parts are not all laid out twice.
+    if (attempt === 0 && ctx.previous && ctx.previous.summaryParts.length !== contents.length) {
+      const pagesBefore = (i: number): number => {
+        const p = ctx.previous!.summaryParts[i]?.pages;
+        return Number.isInteger(p) && p >= 1 && p <= 1000 ? p : 1;
+      };
+      const expected = contents.reduce((n, _c, i) => n + pagesBefore(i), 0);
+      if (expected !== total) {
+        total = expected;
+        continue;
+      }
+    }
     const parts: SummaryPart[] = [];
     let offset = 0;
-    for (const content of summaryParts(project, result, opts)) {
+    for (const content of contents) {
       ctx.signal?.throwIfAborted();
       const key = createHash('sha256').update(ctx.projectPrint).update(header).update(`${offset}/${total}\n`).update(stableJson(content)).digest('hex');
       let part: SummaryPart | undefined = made.get(key) ?? cachedSummaryPart(ctx.outDir, ctx.previous, key);

@@ -8,6 +8,7 @@ import { buildDossier, type BuildReport } from '../../src/report/build.js';
 import { fixtureProject, fixtureResult, fixtureResultsJson } from '../fixtures/report/project.js';
 import { pdfText } from './helpers.js';
 import { sheetInputHash } from '../../src/report/fingerprint.js';
+import { defaultRenderer, type Renderer } from '../../src/report/render.js';
 
 const root = mkdtempSync(path.join(tmpdir(), 'fs-incremental-'));
 afterAll(() => rmSync(root, { recursive: true, force: true }));
@@ -103,6 +104,48 @@ describe('incremental build', () => {
       p.meta.revision = 'C';
     });
     expect(b.rendered).toBe(4);
+  });
+
+  it('lays out each summary part once when an edit gives the summary more parts, and its page count with them', async () => {
+    const dir = path.join(root, 'more-parts');
+    // every check of every circuit made to fail with a long explanation: the list of checks that
+    // do not pass runs onto more pages
+    const many = (_p: ReturnType<typeof fixtureProject>, r: ReturnType<typeof fixtureResult>): void => {
+      for (const c of r.circuits) {
+        c.verdict = 'fail';
+        for (const k of c.checks) {
+          k.status = 'fail';
+          k.explanation = `${'A long explanation of why this check does not pass, written to fill the line and the next. '.repeat(8)}`;
+        }
+      }
+    };
+    const real = defaultRenderer();
+    let documents = 0;
+    const counting: Renderer = { chart: (c) => real.chart(c), pdf: (doc, images) => (documents++, real.pdf(doc, images)) };
+    const run = (edit?: typeof many): Promise<BuildReport> => {
+      const p = fixtureProject();
+      const r = fixtureResult();
+      edit?.(p, r);
+      return buildDossier(p, r, fixtureResultsJson(p, r), dir, { renderer: counting });
+    };
+    const before = await run();
+    documents = 0;
+    const after = await run(many);
+    expect(after.summaryParts.total).toBeGreaterThan(before.summaryParts.total); // the edit added parts
+    // every sheet shows its checks, so all four render; every part's page numbers changed, so all
+    // are laid out, each once (not once for the old page count and again for the new)
+    expect(after.rendered).toBe(4);
+    expect(documents).toBe(4 + after.summaryParts.total);
+    expect(after.summaryParts.laidOut).toBe(after.summaryParts.total);
+    // and the bytes are a full build's
+    const full = path.join(root, 'more-parts-full');
+    const p = fixtureProject();
+    const r = fixtureResult();
+    many(p, r);
+    await buildDossier(p, r, fixtureResultsJson(p, r), full, { force: true });
+    const a = outputs(dir);
+    const b = outputs(full);
+    for (const name of Object.keys(b)) expect(a[name]?.equals(b[name]), name).toBe(true);
   });
 
   it('renders every sheet when a template changes', async () => {
