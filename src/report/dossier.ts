@@ -237,7 +237,7 @@ export class DossierWriter {
 
   /** Open `outPath` (a new file) for a dossier of `sheets` after `frontPages` pages of front parts. */
   constructor(
-    readonly outPath: string,
+    outPath: string,
     sheets: readonly DossierPart[],
     private readonly frontPages: number,
     private readonly meta: DossierMeta,
@@ -268,11 +268,6 @@ export class DossierWriter {
       sink.close();
       throw err;
     }
-  }
-
-  /** Sheets written so far. */
-  get sheetsWritten(): number {
-    return this.written.length;
   }
 
   /**
