@@ -3,7 +3,7 @@
 // staging folder beside OUT; write results.json and the cache manifest, then swap the folder into
 // place (src/io/write.ts). Any failure or interruption before the swap leaves OUT exactly as it was.
 
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import path from 'node:path';
 import type { Content } from 'pdfmake/interfaces.js';
 import type { Project } from '../model/types.js';
@@ -22,7 +22,7 @@ import type { TemplateSet } from './templates.js';
 import { stableJson } from './fingerprint.js';
 import { createHash } from 'node:crypto';
 import { unmark } from './typeset.js';
-import { SHAPED_FILE, mergeShapedWords, readShapedWords, shapedWordsBytes } from './shaped-words.js';
+import { SHAPED_FILE, mergeShapedWords, readShapedFile, shapedWordsBytes } from './shaped-words.js';
 
 export { OutputPlanError, sheetFileName, planOutputs } from './plan.js';
 export { OutputDirError } from '../io/write.js';
@@ -431,13 +431,6 @@ async function keepShapedWords(staging: Staging, pool: SheetPool | null, previou
     if (before) await staging.adopt(name, before);
     return;
   }
-  let previous = null;
-  if (before)
-    try {
-      previous = readShapedWords(readFileSync(before));
-    } catch {
-      previous = null; // unreadable: the workers' words alone
-    }
-  const merged = mergeShapedWords(previous, fresh);
+  const merged = mergeShapedWords(before ? readShapedFile(before) : null, fresh); // unreadable: the workers' words alone
   if (merged) await staging.write(name, shapedWordsBytes(merged));
 }

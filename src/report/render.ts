@@ -11,7 +11,7 @@ import { indexedPng } from './png.js';
 import { CHART_FONT, CHART_HEIGHT, CHART_WIDTH, type MarksOptions, type SheetChart } from './charts.js';
 import { fontFiles, readFonts, type FontFace } from './assets.js';
 import { toolFingerprint } from './cache.js';
-import { GLYPH_INTS, type ShapedWords } from './shaped-words.js';
+import { GLYPH_INTS, codePointsOf, type ShapedWords } from './shaped-words.js';
 import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
 import path from 'node:path';
@@ -185,7 +185,7 @@ function shareLayoutCache(printer: PdfPrinter): void {
   };
 }
 
-/** The shared cache of shapedLayoutCache: per parsed font, each word's run. */
+/** The cache shareLayoutCache shares: per parsed font, each word's run. */
 const sharedRuns = new WeakMap<object, Map<string, unknown>>();
 
 /** A shaped run as pdfkit's font reads it (layout, encode): glyph ids, widths and meanings, positions. */
@@ -208,11 +208,17 @@ interface PdfkitPosition {
 const freshRuns: Array<{ font: object; text: string; run: PdfkitRun }> = [];
 const FRESH_MAX = 20_000;
 
-/** The fonts of the faces, and for each the number of code points its character map sends to each glyph. */
-let faces: Array<{ face: FontFace; font: FontkitFont; sources?: Uint16Array }> | null = null;
+/** A face's parsed font, and the number of code points its character map sends to each glyph (once counted). */
+interface FaceFont {
+  face: FontFace;
+  font: FontkitFont;
+  sources?: Uint16Array;
+}
+
+let faces: FaceFont[] | null = null;
 let shapesKey: string | null = null;
 
-function faceFonts(): Array<{ face: FontFace; font: FontkitFont; sources?: Uint16Array }> {
+function faceFonts(): FaceFont[] {
   if (faces) return faces;
   if (!parsedFont || !faceBuffers) throw new Error('internal error: shaped words before the renderer');
   const make = parsedFont;
@@ -229,7 +235,7 @@ function shapedKey(): string {
 }
 
 /** How many code points the font's character map sends to each glyph. */
-function glyphSources(entry: { font: FontkitFont; sources?: Uint16Array }): Uint16Array {
+function glyphSources(entry: FaceFont): Uint16Array {
   if (entry.sources) return entry.sources;
   const counts = new Uint16Array(entry.font.numGlyphs);
   for (const cp of entry.font.characterSet) {
@@ -238,9 +244,6 @@ function glyphSources(entry: { font: FontkitFont; sources?: Uint16Array }): Uint
   }
   return (entry.sources = counts);
 }
-
-/** The word's code points. */
-const codePointsOf = (text: string): number[] => Array.from(text, (ch) => ch.codePointAt(0)!);
 
 /**
  * True when shaping `text` substituted no glyph (shaped-words.ts): glyph i is the glyph the

@@ -10,7 +10,9 @@
 // sheet says a glyph means (its ToUnicode entry).
 //
 // This module is the data alone (read, checked, merged, written), light enough for the main thread.
+// It reads the file; the build writes it into the staging folder.
 
+import { readFileSync } from 'node:fs';
 import { deserialize, serialize } from 'node:v8';
 
 export const SHAPED_FILE = 'shaped.bin';
@@ -41,12 +43,8 @@ export interface ShapedWords {
   faces: Record<string, ShapedFace>;
 }
 
-/** Characters (code points) of a word: its glyphs. */
-export const charactersOf = (text: string): number => {
-  let n = 0;
-  for (const _ of text) n++;
-  return n;
-};
+/** A word's code points (a kept word has one glyph each). */
+export const codePointsOf = (text: string): number[] => Array.from(text, (ch) => ch.codePointAt(0)!);
 
 function isFace(f: unknown): f is ShapedFace {
   if (typeof f !== 'object' || f === null) return false;
@@ -55,7 +53,7 @@ function isFace(f: unknown): f is ShapedFace {
   let n = 0;
   for (const t of texts) {
     if (typeof t !== 'string' || t.length === 0 || t.length > 1000) return false;
-    n += charactersOf(t);
+    n += codePointsOf(t).length;
   }
   if (glyphs.length !== n * GLYPH_INTS) return false;
   for (let i = 0; i < glyphs.length; i += GLYPH_INTS) if (glyphs[i] <= 0 || glyphs[i] > 65535) return false;
@@ -80,6 +78,17 @@ export function readShapedWords(bytes: Uint8Array): ShapedWords | null {
     out[face] = words;
   }
   return { key, faces: out };
+}
+
+/** The words in the file `file` (a build's shaped.bin); null when it is missing, unreadable or not such a file. */
+export function readShapedFile(file: string): ShapedWords | null {
+  let bytes: Buffer;
+  try {
+    bytes = readFileSync(file);
+  } catch {
+    return null;
+  }
+  return readShapedWords(bytes);
 }
 
 export function shapedWordsBytes(words: ShapedWords): Buffer {
@@ -109,7 +118,7 @@ export function mergeShapedWords(previous: ShapedWords | null, fresh: readonly S
       const parts = chunks.get(face)!;
       let at = 0;
       for (const word of words) {
-        const end = at + charactersOf(word) * GLYPH_INTS;
+        const end = at + codePointsOf(word).length * GLYPH_INTS;
         if (list.length < SHAPED_MAX && !known.has(word)) {
           known.add(word);
           list.push(word);

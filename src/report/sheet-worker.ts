@@ -4,7 +4,6 @@
 // shared memory; the worker reads those on its first task of that build, renders the sheets it is
 // given and hands back their bytes and page counts.
 
-import { readFileSync } from 'node:fs';
 import { deserialize } from 'node:v8';
 import { workerData } from 'node:worker_threads';
 import type { Content } from 'pdfmake/interfaces.js';
@@ -15,7 +14,7 @@ import { defaultRenderer, preloadShapedWords, takeShapedWords } from './render.j
 import { renderCircuitSheet } from './sheets.js';
 import { summaryPartDocument } from './summary.js';
 import { TemplateError, TemplateSet } from './templates.js';
-import { readShapedWords, type ShapedWords } from './shaped-words.js';
+import { readShapedFile, type ShapedWords } from './shaped-words.js';
 
 export interface PoolData {
   project: Project; // without its circuits and devices (each task brings its own)
@@ -67,16 +66,11 @@ preload((workerData as PoolWorkerData | undefined)?.shapedWords); // and the wor
 /** Start the word cache with the words in `file`; a missing or damaged file is passed over. */
 function preload(file: string | undefined): void {
   if (!file) return;
-  let bytes: Buffer;
-  try {
-    bytes = readFileSync(file);
-  } catch {
-    return;
-  }
-  const words = readShapedWords(bytes);
+  const words = readShapedFile(file);
   const taken = words ? preloadShapedWords(words) : 0;
   if (process.env.FAULTSHEET_TIMINGS) process.stderr.write(`faultsheet: a worker started with ${taken} shaped words\n`);
 }
+
 let current: { generation: number; project: Project; templates: TemplateSet } | null = null;
 
 function build(data: SheetTask['data']): { project: Project; templates: TemplateSet } {
