@@ -186,6 +186,8 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         file: plan.sheets[i].file,
         key: keys[i],
       }));
+    // the previous dossier and where its parts lie, if it is still the file the last build wrote
+    const dossierReuse = previousJoined(staging.outDir, previous, 'dossier');
     let prewriting: Promise<void | null> | undefined;
     // results.json and the cache files depend on nothing rendered: written while the sheets render
     let extras: Promise<void> | undefined;
@@ -226,10 +228,9 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
         const laying = guess && !first ? layOutSummary(project, result, summaryCtx(guess, local.signal)).catch(fail) : null;
         // While the summary's changed parts wait for the worker, the dossier's kept sheets up to the
         // first one rendering go into it (from the last build's page counts, checked at the end).
-        const reuse = previousJoined(staging.outDir, previous, 'dossier');
-        if (guess && reuse && previous!.summaryPages >= 1 && !first) {
+        if (guess && dossierReuse && previous!.summaryPages >= 1 && !first) {
           const guessed = sheetParts(guess);
-          earlyDossier = new DossierWriter(staging.pathOf(DOSSIER_FILE), guessed, previous!.summaryPages, dossierMeta, reuse);
+          earlyDossier = new DossierWriter(staging.pathOf(DOSSIER_FILE), guessed, previous!.summaryPages, dossierMeta, dossierReuse);
           prewriting = prewrite(earlyDossier, guessed, Math.min(...toRender), () => first !== null || local.signal.aborted).catch(fail);
         }
         const extrasWritten = first ? null : writeExtras().catch(fail);
@@ -297,7 +298,7 @@ export async function buildDossier(project: Project, result: ProjectResult, resu
     earlyDossier?.close();
     if (!written) {
       if (earlyDossier) await staging.remove(DOSSIER_FILE);
-      written = writeDossier(staging.pathOf(DOSSIER_FILE), summaryFiles, sheetsNow, dossierMeta, previousJoined(staging.outDir, previous, 'dossier'));
+      written = writeDossier(staging.pathOf(DOSSIER_FILE), summaryFiles, sheetsNow, dossierMeta, dossierReuse);
     }
     const dossierStat = await staging.stat(DOSSIER_FILE);
     manifest.dossier = { size: dossierStat.size, mtimeMs: dossierStat.mtimeMs, records: written.records };
